@@ -1,0 +1,59 @@
+import { z } from 'zod';
+import { roleSchema, type Role } from './roles';
+
+export const UNIT_SYSTEMS = ['imperial', 'metric'] as const;
+export type UnitSystem = (typeof UNIT_SYSTEMS)[number];
+
+export const signInSchema = z.object({
+  email: z.email('Enter an e-mail address').max(254),
+  password: z.string().min(1, 'Enter your password').max(200),
+});
+export type SignInInput = z.infer<typeof signInSchema>;
+
+export const passwordSchema = z.string().min(10, 'Use at least 10 characters').max(200);
+
+export const addPersonSchema = z.object({
+  name: z.string().trim().min(1, 'Enter a name').max(120),
+  email: z.email('Enter an e-mail address').max(254),
+  roles: z.array(roleSchema).min(1, 'Give at least one role').max(5),
+});
+export type AddPersonInput = z.infer<typeof addPersonSchema>;
+
+export const setRolesSchema = z.object({
+  roles: z.array(roleSchema).max(5),
+});
+
+export const acceptInviteSchema = z.object({
+  token: z.string().min(20).max(200),
+  password: passwordSchema,
+});
+
+export interface VenueSummary {
+  id: number;
+  name: string;
+  units: UnitSystem;
+}
+
+/** What `GET /api/me` answers for a signed-in person. */
+export interface Me {
+  id: number;
+  name: string;
+  email: string;
+  venue: VenueSummary;
+  roles: Role[];
+}
+
+export interface PersonRow {
+  id: number;
+  name: string;
+  email: string;
+  roles: Role[];
+  /** False until the person has set a password from their invitation. */
+  active: boolean;
+}
+
+/** Answer to adding a person: the one-time link to set a password (shown once to the admin). */
+export interface AddPersonResult {
+  person: PersonRow;
+  inviteUrl: string;
+}
