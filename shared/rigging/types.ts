@@ -6,6 +6,9 @@
 /** 1 = single purchase (arbor balances 1:1); 2 = double purchase (arbor carries twice, travels half). */
 export type Purchase = 1 | 2;
 
+/** How a venue sees masses and lengths: pounds and feet-inches, or kilograms and metres. */
+export type Units = 'imperial' | 'metric';
+
 /** A venue's brick type, e.g. a full and a half brick of the same footprint. */
 export interface BrickType {
   type: string;
@@ -47,7 +50,7 @@ export type StepKind =
 /** One step of a plan, with the balance it leaves (kg at the batten; positive = pipe-heavy). */
 export interface PlanStep {
   kind: StepKind;
-  /** On remove-piece / add-piece. */
+  /** On remove-piece / add-piece; on a brick step, the piece those bricks balance (none on a final trim). */
   pieceId?: string;
   /** On add-piece: the piece's mass, so the step can be applied on its own. */
   massKg?: number;
@@ -68,6 +71,8 @@ export interface PlanInput extends LineSetLoad {
   ropeLockLimitKg: number;
   /** Most the arbor can carry in bricks + empty arbor, if known. */
   arborCapacityKg?: number;
+  /** Units for the numbers in warnings; metric when not given. */
+  units?: Units;
 }
 
 /** A message a person can read; `error` means the plan must not be run. */
