@@ -1,0 +1,49 @@
+import type { RouteRecordRaw } from 'vue-router';
+import type { Role } from '@shared/protocol/roles';
+import type { AccessMeta } from './access';
+
+declare module 'vue-router' {
+  interface RouteMeta extends AccessMeta {
+    /** Shown in the header and the browser tab. */
+    title?: string;
+  }
+}
+
+const MainLayout = () => import('@/layouts/MainLayout.vue');
+const PlainLayout = () => import('@/layouts/PlainLayout.vue');
+const RoleHomePage = () => import('@/pages/RoleHomePage.vue');
+
+function roleHome(path: string, role: Role, title: string): RouteRecordRaw {
+  return { path, name: `home-${role}`, component: RoleHomePage, props: { role }, meta: { roles: [role], title } };
+}
+
+/** Every screen of the app; who may open it is in `meta`. Any signed-in person unless marked. */
+export const routes: RouteRecordRaw[] = [
+  {
+    path: '/',
+    component: PlainLayout,
+    children: [
+      { path: 'sign-in', name: 'sign-in', component: () => import('@/pages/SignInPage.vue'), meta: { guestOnly: true, title: 'Sign in' } },
+      { path: 'welcome/:token', name: 'welcome', component: () => import('@/pages/WelcomePage.vue'), meta: { public: true, title: 'Welcome' } },
+    ],
+  },
+  {
+    path: '/',
+    component: MainLayout,
+    children: [
+      // Never shown: the guard sends each person on to their own home.
+      { path: '', name: 'landing', component: () => import('@/pages/NoRolePage.vue'), meta: { landing: true } },
+      { path: 'admin/people', name: 'admin-people', component: () => import('@/pages/AdminPeoplePage.vue'), meta: { roles: ['admin'], title: 'People' } },
+      roleHome('rail', 'rail', 'Rail'),
+      roleHome('bridge', 'loader', 'Loading bridge'),
+      roleHome('deck', 'deck', 'Deck'),
+      roleHome('watch', 'stage-manager', 'Watch'),
+      { path: 'no-role', name: 'no-role', component: () => import('@/pages/NoRolePage.vue'), meta: { title: 'No role yet' } },
+    ],
+  },
+  {
+    path: '/:pathMatch(.*)*',
+    component: PlainLayout,
+    children: [{ path: '', name: 'not-found', component: () => import('@/pages/NotFoundPage.vue'), meta: { public: true, title: 'Not found' } }],
+  },
+];

@@ -1,0 +1,75 @@
+import { defineStore } from 'pinia';
+import { computed, ref } from 'vue';
+import type { Me, SignInInput } from '@shared/protocol/people';
+import type { Role } from '@shared/protocol/roles';
+import * as api from '@/services/api';
+import { socket } from '@/services/socket';
+import { homeFor, orderedRoles, roleHomesFor } from '@/router/access';
+import { useConnectionStore } from './connection';
+
+/** Who is signed in, and the sign-in and sign-out steps. */
+export const useAuthStore = defineStore('auth', () => {
+  const me = ref<Me | null>(null);
+  /** True once the first `/api/me` answer (or failure) is in. */
+  const loaded = ref(false);
+  const connection = useConnectionStore();
+
+  const signedIn = computed(() => me.value !== null);
+  const roles = computed<Role[]>(() => orderedRoles(me.value?.roles ?? []));
+  /** Path of this person's home screen. */
+  const homeRoute = computed(() => homeFor(roles.value));
+  /** Every role home this person can switch to, in role order. */
+  const roleHomes = computed(() => roleHomesFor(roles.value));
+
+  function hasRole(role: Role): boolean {
+    return roles.value.includes(role);
+  }
+
+  function become(person: Me | null): void {
+    me.value = person;
+    if (person) connection.start();
+    else connection.stop();
+  }
+
+  /** Asks the server who is signed in (on start, and when the live connection is refused). */
+  async function load(): Promise<Me | null> {
+    try {
+      become(await api.getMeOrNull());
+    } finally {
+      loaded.value = true;
+    }
+    return me.value;
+  }
+
+  /** Rejects with an ApiFailure whose message is written for the person. */
+  async function signIn(input: SignInInput): Promise<Me> {
+    const person = await api.signIn(input);
+    become(person);
+    return person;
+  }
+
+  /** Sets the password from an invitation; the server signs the person in. */
+  async function acceptInvite(token: string, password: string): Promise<Me> {
+    const person = await api.acceptInvite(token, password);
+    become(person);
+    return person;
+  }
+
+  async function signOut(): Promise<void> {
+    try {
+      await api.signOut();
+    } finally {
+      // Even if the server is unreachable, this device forgets the person.
+      become(null);
+    }
+  }
+
+  // Signed out elsewhere (another tab, or an admin): the server says so before it disconnects.
+  socket.on('auth:signed-out', () => become(null));
+  // The server refused the live connection (e.g. the session expired): check who we still are.
+  socket.on('connect_error', () => {
+    if (!socket.active && me.value) void load().catch(() => undefined);
+  });
+
+  return { me, loaded, signedIn, roles, homeRoute, roleHomes, hasRole, load, signIn, acceptInvite, signOut };
+});
