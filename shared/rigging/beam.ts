@@ -84,10 +84,11 @@ export function liftLineLoads(input: LiftLineLoadsInput): number[] {
   if (selfMassKgPerM > 0) spreads.push({ fromM: 0, toM: lengthM, massKg: selfMassKgPerM * lengthM });
   for (const s of spreads) {
     if (s.massKg === 0) continue;
-    if (s.toM === s.fromM) {
-      // A spread of no width is a point load.
-      const k = stretchOf(s.fromM);
-      stretches[k].points.push({ a: s.fromM - bounds[k], kg: s.massKg });
+    if (s.toM - s.fromM < 1e-9) {
+      // A spread narrower than a nanometre is a point load (and dividing by its width would overflow).
+      const atM = (s.fromM + s.toM) / 2;
+      const k = stretchOf(atM);
+      stretches[k].points.push({ a: atM - bounds[k], kg: s.massKg });
       continue;
     }
     const kgPerM = s.massKg / (s.toM - s.fromM);

@@ -7,3 +7,4 @@ export * from './balance';
 export * from './bricks';
 export * from './beam';
 export * from './plan';
+export * from './check';
