@@ -1,0 +1,75 @@
+// `npm start`: installs what is missing, starts the private MariaDB, builds the client and serves Railcall.
+// Node built-ins only until `npm ci` has run.
+import { spawn, spawnSync } from 'node:child_process';
+import { dirname, join } from 'node:path';
+import { fileURLToPath } from 'node:url';
+import { ensureDebianPackages, ensureNodeModules } from './lib/install.mjs';
+import { MariaDb } from './lib/mariadb.mjs';
+import { loadOrCreateCredentials, provisionDatabase } from './lib/app-db.mjs';
+
+const root = join(dirname(fileURLToPath(import.meta.url)), '..');
+const dataDir = join(root, '.data');
+const dbPort = Number(process.env.RAILCALL_DB_PORT ?? 3407);
+const appPort = Number(process.env.RAILCALL_PORT ?? 3000);
+
+ensureDebianPackages(['mariadb-server']);
+ensureNodeModules(root);
+
+const db = new MariaDb({ baseDir: join(dataDir, 'mariadb'), port: dbPort });
+console.log(`[start] MariaDB on 127.0.0.1:${dbPort} (data in .data/mariadb)`);
+await db.start();
+
+let server;
+let stopping = false;
+async function stop(code = 0) {
+  if (stopping) return;
+  stopping = true;
+  if (server && server.exitCode === null) {
+    server.kill('SIGTERM');
+    await new Promise((resolve) => server.once('exit', resolve));
+  }
+  console.log('[start] stopping MariaDB');
+  await db.stop();
+  process.exit(code);
+}
+process.on('SIGINT', () => void stop(0));
+process.on('SIGTERM', () => void stop(0));
+
+try {
+  const credentials = loadOrCreateCredentials(join(dataDir, 'credentials.json'));
+  const names = { database: 'railcall', ownerUser: 'railcall_owner', appUser: 'railcall_app' };
+  provisionDatabase(db, { ...names, ownerPassword: credentials.ownerPassword, appPassword: credentials.appPassword });
+
+  if (!process.env.RAILCALL_SKIP_BUILD) {
+    console.log('[start] building the client');
+    const build = spawnSync(join(root, 'node_modules', '.bin', 'vite'), ['build', '--logLevel', 'warn'], { cwd: root, stdio: 'inherit' });
+    if (build.status !== 0) throw new Error('the client build failed');
+  }
+
+  server = spawn(process.execPath, ['--import', 'tsx', 'server/index.ts'], {
+    cwd: root,
+    stdio: 'inherit',
+    env: {
+      ...process.env,
+      NODE_ENV: process.env.NODE_ENV ?? 'development',
+      RAILCALL_PORT: String(appPort),
+      RAILCALL_DB_PORT: String(dbPort),
+      RAILCALL_DB_NAME: names.database,
+      RAILCALL_DB_USER: names.appUser,
+      RAILCALL_DB_PASSWORD: credentials.appPassword,
+      RAILCALL_DB_OWNER_USER: names.ownerUser,
+      RAILCALL_DB_OWNER_PASSWORD: credentials.ownerPassword,
+      RAILCALL_SESSION_SECRET: credentials.sessionSecret,
+      RAILCALL_CLIENT_DIR: join(root, 'dist'),
+    },
+  });
+  server.on('exit', (code) => {
+    if (!stopping) {
+      console.error(`[start] the server stopped (exit code ${code})`);
+      void stop(code ?? 1);
+    }
+  });
+} catch (error) {
+  console.error(`[start] ${error.message}`);
+  await stop(1);
+}

@@ -1,0 +1,108 @@
+import { createServer, type Server as HttpServer } from 'node:http';
+import { existsSync } from 'node:fs';
+import { resolve } from 'node:path';
+import express, { type Express } from 'express';
+import helmet from 'helmet';
+import type { DataSource } from 'typeorm';
+import type { Config } from './config';
+import type { Logger } from './logger';
+import { createSessionMiddleware } from './middleware/session';
+import { apiNotFound, errorHandler } from './middleware/error-handler';
+import { mountRoutes, type RouteSpec } from './middleware/routes';
+import { HttpError } from './middleware/http-error';
+import { createPassport } from './features/auth/passport';
+import { signInThrottles } from './features/auth/throttle';
+import { authRoutes } from './features/auth/auth.routes';
+import { PeopleService } from './features/people/people.service';
+import { peopleRoutes } from './features/people/people.routes';
+import { ScheduleService } from './features/schedule/schedule.service';
+import { scheduleRoutes } from './features/schedule/schedule.routes';
+import { createIo, endSignIn, type RailcallServer } from './realtime/io';
+
+export interface AppDeps {
+  config: Config;
+  /** Connected as the application account. */
+  db: DataSource;
+  logger: Logger;
+}
+
+export interface RailcallApp {
+  app: Express;
+  httpServer: HttpServer;
+  io: RailcallServer;
+  /** Every API route, with its access rule (the access test walks this list). */
+  routes: RouteSpec[];
+  /** Stops taking connections and closes what the app opened (not the DataSource it was given). */
+  close(): Promise<void>;
+}
+
+/** Builds the app; only server/index.ts listens. Tests start it on port 0 with their own database. */
+export function createApp({ config, db, logger }: AppDeps): RailcallApp {
+  const app = express();
+  const httpServer = createServer(app);
+  const session = createSessionMiddleware(config);
+  const people = new PeopleService(db);
+  const passport = createPassport(people);
+  const schedule = new ScheduleService(db);
+
+  let io: RailcallServer | undefined;
+  const routes: RouteSpec[] = [
+    ...authRoutes({
+      people,
+      passport,
+      throttles: signInThrottles(config),
+      onSignedOut: (sessionId) => io && endSignIn(io, sessionId),
+    }),
+    ...peopleRoutes(people),
+    ...scheduleRoutes(schedule),
+  ];
+
+  app.disable('x-powered-by');
+  app.use(helmet({
+    contentSecurityPolicy: {
+      directives: {
+        // Plain http on localhost would break under upgrade-insecure-requests.
+        upgradeInsecureRequests: config.production ? [] : null,
+        // Vue/Quasar inject style attributes at run time.
+        styleSrc: ["'self'", "'unsafe-inline'"],
+        imgSrc: ["'self'", 'data:'],
+        mediaSrc: ["'self'", 'data:'],
+      },
+    },
+    strictTransportSecurity: config.production,
+  }));
+  app.use('/api', express.json({ limit: config.jsonLimit }));
+  app.use('/api', session.middleware, passport.session());
+  app.use('/api', (req, _res, next) => {
+    const startedAt = req.session?.signedInAt;
+    if (req.user && startedAt && Date.now() - startedAt > config.sessionAbsoluteMs) {
+      req.session.destroy(() => next(new HttpError('unauthenticated', 'Your sign-in has expired. Sign in again.')));
+      return;
+    }
+    next();
+  });
+  app.use('/api', mountRoutes(routes));
+  app.use('/api', apiNotFound);
+
+  const clientDir = config.clientDir ? resolve(config.clientDir) : null;
+  if (clientDir && existsSync(resolve(clientDir, 'index.html'))) {
+    app.use(express.static(clientDir, { index: false, maxAge: '1h' }));
+    // The client routes its own paths: every other GET gets the app.
+    app.get('/{*splat}', (_req, res) => res.sendFile(resolve(clientDir, 'index.html')));
+  }
+  app.use(errorHandler(logger, config.jsonLimit));
+
+  io = createIo(httpServer, session.middleware, passport, []);
+
+  return {
+    app,
+    httpServer,
+    io,
+    routes,
+    async close() {
+      await io.close();
+      if (httpServer.listening) await new Promise<void>((r) => httpServer.close(() => r()));
+      await session.close();
+    },
+  };
+}

@@ -1,0 +1,63 @@
+import { z } from 'zod';
+
+/** The only reader of process.env. Everything else receives a Config. */
+const envSchema = z.object({
+  NODE_ENV: z.enum(['development', 'production', 'test']).default('development'),
+  RAILCALL_PORT: z.coerce.number().int().min(0).max(65535).default(3000),
+  RAILCALL_HOST: z.string().default('0.0.0.0'),
+  RAILCALL_DB_HOST: z.string().default('127.0.0.1'),
+  RAILCALL_DB_PORT: z.coerce.number().int().min(1).max(65535).default(3407),
+  RAILCALL_DB_NAME: z.string().regex(/^[A-Za-z0-9_]+$/).default('railcall'),
+  RAILCALL_DB_USER: z.string().default('railcall_app'),
+  RAILCALL_DB_PASSWORD: z.string().default(''),
+  RAILCALL_DB_OWNER_USER: z.string().default('railcall_owner'),
+  RAILCALL_DB_OWNER_PASSWORD: z.string().default(''),
+  RAILCALL_SESSION_SECRET: z.string().min(16, 'RAILCALL_SESSION_SECRET must be at least 16 characters'),
+  RAILCALL_CLIENT_DIR: z.string().default('dist'),
+  RAILCALL_LOG_LEVEL: z.enum(['fatal', 'error', 'warn', 'info', 'debug', 'silent']).default('info'),
+});
+
+export interface DbConfig {
+  host: string;
+  port: number;
+  database: string;
+  user: string;
+  password: string;
+}
+
+export interface Config {
+  production: boolean;
+  port: number;
+  host: string;
+  db: DbConfig;
+  /** The account that owns the schema: runs migrations and grants the app account its rights. */
+  dbOwner: DbConfig;
+  sessionSecret: string;
+  /** Idle and absolute lifetimes of a sign-in. A show day is long; a forgotten phone should not stay in. */
+  sessionIdleMs: number;
+  sessionAbsoluteMs: number;
+  /** Failed sign-ins allowed per window, per account and per address. */
+  signInThrottle: { windowMs: number; perAccount: number; perAddress: number };
+  jsonLimit: string;
+  clientDir: string | null;
+  logLevel: 'fatal' | 'error' | 'warn' | 'info' | 'debug' | 'silent';
+}
+
+export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
+  const e = envSchema.parse(env);
+  const db = { host: e.RAILCALL_DB_HOST, port: e.RAILCALL_DB_PORT, database: e.RAILCALL_DB_NAME };
+  return {
+    production: e.NODE_ENV === 'production',
+    port: e.RAILCALL_PORT,
+    host: e.RAILCALL_HOST,
+    db: { ...db, user: e.RAILCALL_DB_USER, password: e.RAILCALL_DB_PASSWORD },
+    dbOwner: { ...db, user: e.RAILCALL_DB_OWNER_USER, password: e.RAILCALL_DB_OWNER_PASSWORD },
+    sessionSecret: e.RAILCALL_SESSION_SECRET,
+    sessionIdleMs: 8 * 60 * 60 * 1000,
+    sessionAbsoluteMs: 16 * 60 * 60 * 1000,
+    signInThrottle: { windowMs: 15 * 60 * 1000, perAccount: 5, perAddress: 30 },
+    jsonLimit: '32kb',
+    clientDir: e.RAILCALL_CLIENT_DIR,
+    logLevel: e.RAILCALL_LOG_LEVEL,
+  };
+}

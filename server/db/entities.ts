@@ -1,0 +1,8 @@
+import { Venue } from '../features/venue/venue.entity';
+import { Person } from '../features/people/person.entity';
+import { VenueRole } from '../features/people/venue-role.entity';
+import { BrickTypeRow } from '../features/schedule/brick-type.entity';
+import { LineSetRow } from '../features/schedule/line-set.entity';
+import { PieceRow } from '../features/schedule/piece.entity';
+
+export const entities = [Venue, Person, VenueRole, BrickTypeRow, LineSetRow, PieceRow];

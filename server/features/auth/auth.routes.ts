@@ -1,0 +1,86 @@
+import type { Request } from 'express';
+import type { PassportStatic } from 'passport';
+import { acceptInviteSchema, signInSchema } from '@shared/protocol/people';
+import { HttpError } from '../../middleware/http-error';
+import { route, type RouteSpec } from '../../middleware/routes';
+import type { PeopleService, SignedInUser } from '../people/people.service';
+import type { RequestHandler } from 'express';
+
+export interface AuthRouteDeps {
+  people: PeopleService;
+  passport: PassportStatic;
+  throttles: RequestHandler[];
+  /** Called after a sign-out with the ended session's id, to disconnect its sockets. */
+  onSignedOut(sessionId: string): void;
+}
+
+/** passport 0.7 regenerates the session id inside logIn: a stolen pre-sign-in cookie is worth nothing. */
+function logIn(req: Request, user: SignedInUser): Promise<void> {
+  return new Promise((resolve, reject) => {
+    req.logIn(user, (error) => {
+      if (error) return reject(error);
+      req.session.signedInAt = Date.now();
+      resolve();
+    });
+  });
+}
+
+function authenticate(passport: PassportStatic, req: Request): Promise<SignedInUser | false> {
+  return new Promise((resolve, reject) => {
+    passport.authenticate('local', { session: false }, (error: unknown, user: SignedInUser | false) => {
+      if (error) reject(error);
+      else resolve(user);
+    })(req, req.res, reject);
+  });
+}
+
+export function authRoutes(deps: AuthRouteDeps): RouteSpec[] {
+  return [
+    route({
+      method: 'post',
+      path: '/auth/sign-in',
+      access: { public: true },
+      before: deps.throttles,
+      body: signInSchema,
+      async handler({ req, body }) {
+        req.body = body;
+        const user = await authenticate(deps.passport, req);
+        if (!user) throw new HttpError('unauthenticated', 'E-mail or password is wrong.');
+        await logIn(req, user);
+        return deps.people.me(user);
+      },
+    }),
+    route({
+      method: 'post',
+      path: '/auth/sign-out',
+      access: { public: true },
+      async handler({ req, res }) {
+        const sessionId = req.sessionID;
+        await new Promise<void>((resolve, reject) => req.logOut((e) => (e ? reject(e) : resolve())));
+        await new Promise<void>((resolve, reject) => req.session.destroy((e) => (e ? reject(e) : resolve())));
+        deps.onSignedOut(sessionId);
+        res.clearCookie('railcall.sid');
+        res.status(204).end();
+      },
+    }),
+    route({
+      method: 'post',
+      path: '/auth/accept-invite',
+      access: { public: true },
+      body: acceptInviteSchema,
+      async handler({ req, body }) {
+        const personId = await deps.people.acceptInvite(body.token, body.password);
+        const user = await deps.people.loadUser(personId);
+        if (!user) throw new HttpError('forbidden', 'Your account holds no role at any venue yet. Ask your technical director.');
+        await logIn(req, user);
+        return deps.people.me(user);
+      },
+    }),
+    route({
+      method: 'get',
+      path: '/me',
+      access: { roles: 'any' },
+      handler: ({ user }) => deps.people.me(user),
+    }),
+  ];
+}

@@ -1,0 +1,33 @@
+import passport from 'passport';
+import { Strategy as LocalStrategy } from 'passport-local';
+import type { PeopleService, SignedInUser } from '../people/people.service';
+import { verifyPassword } from './password';
+
+declare global {
+  // eslint-disable-next-line @typescript-eslint/no-namespace
+  namespace Express {
+    // passport's req.user is the signed-in person as the server knows them.
+    // eslint-disable-next-line @typescript-eslint/no-empty-object-type
+    interface User extends SignedInUser {}
+  }
+}
+
+/** A passport instance of our own (not the global singleton), so each app in a test stands alone. */
+export function createPassport(people: PeopleService): passport.PassportStatic {
+  const instance = new passport.Passport() as unknown as passport.PassportStatic;
+  instance.use(new LocalStrategy({ usernameField: 'email', passwordField: 'password' }, (email, password, done) => {
+    (async () => {
+      const person = await people.findByEmail(email);
+      const ok = await verifyPassword(person?.passwordHash ?? null, password);
+      if (!person || !ok) return done(null, false);
+      const user = await people.loadUser(person.id);
+      return done(null, user ?? false);
+    })().catch(done);
+  }));
+  instance.serializeUser((user, done) => done(null, (user as SignedInUser).id));
+  instance.deserializeUser((id: number, done) => {
+    // A person whose roles were all removed is signed out on their next request.
+    people.loadUser(id).then((user) => done(null, user ?? false), done);
+  });
+  return instance;
+}

@@ -1,0 +1,40 @@
+import { loadConfig } from './config';
+import { createLogger } from './logger';
+import { createDataSource } from './db/data-source';
+import { migrate, seedIfEmpty } from './db/setup';
+import { createApp } from './app';
+import { DEMO_ACCOUNTS, DEMO_PASSWORD } from '@shared/protocol/http';
+
+const config = loadConfig();
+const logger = createLogger(config.logLevel);
+
+// Migrations and the seed run as the schema owner; the app itself runs as the application account.
+const owner = createDataSource(config.dbOwner, { poolSize: 2 });
+await owner.initialize();
+const ran = await migrate(owner, config);
+if (ran.length) logger.info({ migrations: ran }, 'migrated');
+const seeded = await seedIfEmpty(owner);
+await owner.destroy();
+
+const db = createDataSource(config.db);
+await db.initialize();
+const railcall = createApp({ config, db, logger });
+railcall.httpServer.listen(config.port, config.host, () => {
+  const url = `http://localhost:${config.port}`;
+  if (seeded) logger.info('seeded the demo venue');
+  console.log(`\nRailcall is running at ${url}\nDemo accounts (password "${DEMO_PASSWORD}"):`);
+  for (const a of DEMO_ACCOUNTS) console.log(`  ${a.email.padEnd(28)} ${a.roles.join(', ').padEnd(14)} ${a.name}`);
+  console.log('');
+});
+
+let stopping = false;
+async function stop(signal: string) {
+  if (stopping) return;
+  stopping = true;
+  logger.info({ signal }, 'stopping');
+  await railcall.close();
+  await db.destroy();
+  process.exit(0);
+}
+process.on('SIGINT', () => void stop('SIGINT'));
+process.on('SIGTERM', () => void stop('SIGTERM'));

@@ -1,0 +1,64 @@
+import type { Server as HttpServer, IncomingMessage, ServerResponse } from 'node:http';
+import type { RequestHandler } from 'express';
+import type { PassportStatic } from 'passport';
+import { Server, type Socket } from 'socket.io';
+import type { ClientToServerEvents, ServerToClientEvents } from '@shared/protocol/events';
+import type { SignedInUser } from '../features/people/people.service';
+
+export interface SocketData {
+  user: SignedInUser;
+  /** The express-session id this socket was opened under: sign-out ends exactly these sockets. */
+  sessionId: string;
+}
+
+export type RailcallServer = Server<ClientToServerEvents, ServerToClientEvents, Record<string, never>, SocketData>;
+export type RailcallSocket = Socket<ClientToServerEvents, ServerToClientEvents, Record<string, never>, SocketData>;
+
+/** A feature that serves socket events registers its handlers through one of these. */
+export type SocketFeature = (io: RailcallServer, socket: RailcallSocket) => void;
+
+type EngineRequest = IncomingMessage & { _query: Record<string, string>; user?: SignedInUser; sessionID?: string };
+
+/** Session middleware runs on the handshake request only, not on every polling request. */
+function onlyForHandshake(middleware: RequestHandler) {
+  return (req: EngineRequest, res: ServerResponse, next: (error?: unknown) => void) => {
+    if (req._query.sid === undefined) middleware(req as never, res as never, next);
+    else next();
+  };
+}
+
+export const sessionRoom = (sessionId: string) => `sid:${sessionId}`;
+export const personRoom = (personId: number) => `person:${personId}`;
+
+/**
+ * Socket.IO shares the Express sign-in (the documented pattern: express-session and passport
+ * on the engine's handshake). A handshake without a signed-in person is refused with 401.
+ */
+export function createIo(httpServer: HttpServer, session: RequestHandler, passport: PassportStatic, features: SocketFeature[]): RailcallServer {
+  const io: RailcallServer = new Server(httpServer, { serveClient: false, maxHttpBufferSize: 64 * 1024 });
+  io.engine.use(onlyForHandshake(session));
+  io.engine.use(onlyForHandshake(passport.session() as RequestHandler));
+  io.engine.use(onlyForHandshake(((req, res, next) => {
+    if (req.user) next();
+    else {
+      res.writeHead(401, { 'content-type': 'application/json' });
+      res.end(JSON.stringify({ error: { code: 'unauthenticated', message: 'Sign in first.' } }));
+    }
+  }) as RequestHandler));
+
+  io.on('connection', (socket) => {
+    const req = socket.request as EngineRequest;
+    socket.data.user = req.user as SignedInUser;
+    socket.data.sessionId = req.sessionID as string;
+    void socket.join([sessionRoom(socket.data.sessionId), personRoom(socket.data.user.id)]);
+    for (const feature of features) feature(io, socket);
+  });
+  return io;
+}
+
+/** Sign-out: tell the sockets of that sign-in, then close them. */
+export function endSignIn(io: RailcallServer, sessionId: string): void {
+  const room = io.in(sessionRoom(sessionId));
+  room.emit('auth:signed-out');
+  room.disconnectSockets(true);
+}
