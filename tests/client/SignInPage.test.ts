@@ -38,7 +38,7 @@ describe('SignInPage', () => {
     await flushPromises();
     expect(wrapper.text()).toContain('Enter an e-mail address');
     expect(wrapper.text()).toContain('Enter your password');
-    expect(wrapper.find('[data-test="sign-in-problem"]').exists()).toBe(false);
+    expect(wrapper.find('[data-testid="sign-in-problem"]').exists()).toBe(false);
     wrapper.unmount();
   });
 
