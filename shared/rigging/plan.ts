@@ -19,7 +19,15 @@ import { formatMass } from './units';
 
 const EPS = MASS_TOLERANCE_KG;
 
-/** Reported balances are rounded to the milligram, so float noise never shows as "arbor-heavy by 0.0000001". */
+/**
+ * Balances are reckoned to the milligram: reported values are rounded to it, and the searches may miss
+ * their target by under half of it. Without that, float noise (a piece of 1e-9 kg) could pull a whole brick.
+ * Loading has more slack than unloading, so a brick pulled for a sub-milligram need always fits back on.
+ */
+const PULL_SLACK_KG = 2e-7;
+const SLACK_KG = 4e-7;
+
+/** Rounds to the milligram, so float noise never shows as "arbor-heavy by 0.0000001". */
 function tidyKg(kg: number): number {
   return Math.round(kg * 1e6) / 1e6 + 0;
 }
@@ -79,10 +87,10 @@ class PlanBuilder {
 function loadTowardBalance(plan: PlanBuilder, brickTypes: BrickType[], capacityKg: number | undefined, pieceId?: string): boolean {
   const wantedKg = plan.imbalanceKg() * plan.load.purchase;
   const roomKg = capacityKg === undefined ? Infinity : capacityKg - plan.arborSideKg();
-  const targetKg = Math.min(wantedKg, roomKg);
+  const targetKg = Math.min(wantedKg, roomKg) + SLACK_KG;
   const pick = chooseBricks(targetKg, stockOf(plan.bridge, brickTypes));
   if (!isEmpty(pick.picks)) plan.push({ kind: 'add-bricks', pieceId, bricks: pick.picks });
-  return roomKg < wantedKg - EPS;
+  return roomKg < wantedKg - SLACK_KG;
 }
 
 function refuse(input: PlanInput, warnings: PlanWarning[]): PlanResult {
@@ -130,7 +138,7 @@ export function planChange(input: PlanInput): PlanResult {
     const piece = plan.load.pieces.find((p) => p.id === id)!;
     // Pull enough that the piece can come off without the set going arbor-heavy; any pipe-heavy margin already there counts.
     const needKg = (piece.massKg - plan.imbalanceKg()) * purchase;
-    const pick = chooseBricksAtLeast(needKg, stockOf(plan.load.bricks, brickTypes));
+    const pick = chooseBricksAtLeast(needKg - PULL_SLACK_KG, stockOf(plan.load.bricks, brickTypes));
     if (!pick) {
       return error(
         'not-enough-bricks-on-arbor',
@@ -148,21 +156,27 @@ export function planChange(input: PlanInput): PlanResult {
     arborFull = loadTowardBalance(plan, brickTypes, arborCapacityKg, piece.id) || arborFull;
   }
   // Over-pulled bricks or a pipe-heavy start leave a margin: trim it with bricks from the bridge when they fit.
+  // (After a loading step this finds nothing more: that step already came as close as the bridge allows.)
   const lightestKg = Math.min(...brickTypes.map((b) => b.massKg));
-  if (plan.imbalanceKg() * purchase >= lightestKg - EPS) {
-    arborFull = loadTowardBalance(plan, brickTypes, arborCapacityKg) || arborFull;
-  }
+  arborFull = loadTowardBalance(plan, brickTypes, arborCapacityKg) || arborFull;
 
   const finalKg = tidyKg(plan.imbalanceKg());
+  // Why the set cannot come to balance: the arbor is full, the bridge ran out, or the lightest brick is too heavy for what is left.
+  const tooCoarse = !arborFull && finalKg * purchase < lightestKg - SLACK_KG;
   if (finalKg > ropeLockLimitKg) {
+    const code = arborFull ? 'arbor-full' : tooCoarse ? 'bricks-too-coarse' : 'not-enough-bricks';
+    const reason = {
+      'arbor-full': 'the arbor cannot take enough bricks.',
+      'bricks-too-coarse': 'even the lightest brick would make it arbor-heavy.',
+      'not-enough-bricks': 'there are not enough bricks on the loading bridge.',
+    }[code];
     return error(
-      arborFull ? 'arbor-full' : 'not-enough-bricks',
-      `The set would end pipe-heavy by ${show(finalKg)}, more than the rope lock holds (${show(ropeLockLimitKg)}): ` +
-        (arborFull ? 'the arbor cannot take enough bricks. ' : 'there are not enough bricks on the loading bridge. ') +
-        'Do not start: bring more bricks or check with a qualified rigger.',
+      code,
+      `The set would end pipe-heavy by ${show(finalKg)}, more than the rope lock holds (${show(ropeLockLimitKg)}): ${reason} ` +
+        'Do not start: bring the right bricks or check with a qualified rigger.',
     );
   }
-  if (brickTypes.length && finalKg * purchase >= lightestKg - EPS) {
+  if (brickTypes.length && finalKg * purchase >= lightestKg - SLACK_KG) {
     warnings.push({
       severity: 'warning',
       code: arborFull ? 'arbor-full' : 'not-balanced',

@@ -77,7 +77,8 @@ describe('liftLineLoads', () => {
       fc.property(battenArb, (batten) => {
         const ours = liftLineLoads(batten);
         const reference = referenceLiftLineLoads(batten);
-        const scale = Math.max(1, totalKg(batten));
+        // The reference's own round-off grows with the largest line load (short spans under long overhangs).
+        const scale = Math.max(1, totalKg(batten), ...reference.map(Math.abs));
         ours.forEach((kg, i) => expect(Math.abs(kg - reference[i])).toBeLessThan(1e-6 * scale));
       }),
       { numRuns: 500 },
