@@ -1,0 +1,268 @@
+/**
+ * Read-only views of a session for the role screens, the log table and the server's re-alert timer.
+ * `allowedActions` asks `decide` itself, so a phone never offers a button the server would refuse.
+ */
+import { ROLE_LABELS, type SessionRole } from '../roles';
+import { decide, type LogDraft } from './machine';
+import { ACTION_TYPES, type ActionType, type SessionAction } from './schema';
+import {
+  activeLineSet,
+  crewShortfall,
+  nextWorkStepIndex,
+  notYetClear,
+  participantOf,
+  type Participant,
+  type SessionState,
+} from './state';
+import { balanceText, capital, holdText, lineSetLabel, nameList, sessionDuty, stepText } from './words';
+
+export interface Named {
+  personId: number;
+  name: string;
+  role: SessionRole;
+}
+const named = (p: Participant): Named => ({ personId: p.personId, name: p.name, role: p.role });
+
+/** A stand-in action of each type, for asking decide whether the type is allowed now. */
+function probe(type: ActionType, state: SessionState, me: Participant): SessionAction {
+  const ls = activeLineSet(state);
+  switch (type) {
+    case 'join':
+      return { type, role: me.role };
+    case 'begin':
+      return { type, shortCrewReason: crewShortfall(state).length ? 'probe' : undefined };
+    case 'confirm-step':
+      return { type, stepIndex: ls ? Math.max(0, nextWorkStepIndex(ls)) : 0 };
+    case 'record-test':
+      return { type, result: 'balanced' };
+    case 'call-hold':
+      return { type };
+    case 'note':
+      return { type, text: 'probe' };
+    case 'end':
+      return { type, reason: 'probe' };
+    default:
+      return { type } as SessionAction;
+  }
+}
+
+/**
+ * The action types this person may send now, for the buttons on their screen.
+ * A person who has not joined may only join (their venue roles are checked when they do).
+ * `begin` is listed when it is allowed with a reason; `crewShortfall` says whether one is needed.
+ * `confirm-step` is for the next step (nextStepFor gives its index).
+ */
+export function allowedActions(state: SessionState, personId: number): ActionType[] {
+  const me = participantOf(state, personId);
+  if (!me) return state.phase === 'finished' ? [] : ['join'];
+  const actor = { personId, name: me.name, venueRoles: [me.role] };
+  return ACTION_TYPES.filter((type) => decide(state, probe(type, state, me), actor, 0).ok);
+}
+
+export interface Waiting {
+  /** One sentence: who must do what now. */
+  text: string;
+  /** The people the session waits on, by name (those who must answer "clear", or the one who acts next). */
+  people: Named[];
+}
+
+/** Who the session waits on now, and for what. The caller's screen shows `people` as the unanswered list. */
+export function waitingOn(state: SessionState): Waiting {
+  const lead = state.participants.find((p) => p.personId === state.leadPersonId);
+  const leadList = lead ? [named(lead)] : [];
+  const byRole = (role: SessionRole) => state.participants.filter((p) => p.role === role).map(named);
+  if (state.phase === 'finished') return { text: 'The session has finished.', people: [] };
+  if (state.hold) return { text: holdText(state.hold), people: leadList };
+  const text = `${sessionDuty(state)}.`;
+  if (state.phase === 'gathering') return { text, people: state.leadPersonId === null ? [] : crewShortfall(state).length ? [] : leadList };
+  const ls = activeLineSet(state);
+  if (!ls) return { text, people: leadList };
+  switch (ls.stage) {
+    case 'move-called': {
+      const silent = notYetClear(state);
+      return { text, people: silent.length ? silent.map(named) : leadList };
+    }
+    case 'in-position':
+      return { text, people: ls.needsTieOff && !ls.tiedOff ? leadList : byRole('loader') };
+    case 'rail-clear': {
+      const next = nextWorkStepIndex(ls);
+      const kind = next >= 0 ? ls.steps[next].kind : null;
+      return { text, people: kind === 'remove-piece' || kind === 'add-piece' ? byRole('deck') : byRole('loader') };
+    }
+    default:
+      return { text, people: leadList };
+  }
+}
+
+export interface NextStep {
+  /** The main things this person may do now (holds, notes and leaving left out). */
+  actions: ActionType[];
+  /** One instruction for this person's screen. */
+  text: string;
+  /** The plan step this person confirms next, when it is theirs. */
+  stepIndex?: number;
+}
+
+const SIDE_ACTIONS = new Set<ActionType>(['call-hold', 'note', 'leave', 'end']);
+
+/** What this person should do now, for their role screen ("Pull 2 bricks for Drape A, then confirm."). */
+export function nextStepFor(state: SessionState, personId: number): NextStep {
+  const allowed = allowedActions(state, personId);
+  const actions = allowed.filter((a) => !SIDE_ACTIONS.has(a));
+  const me = participantOf(state, personId);
+  const ls = activeLineSet(state);
+  const label = ls ? lineSetLabel(ls.name) : '';
+  const main = actions[0];
+  if (!me) return { actions, text: main === 'join' ? 'Join the session in your role.' : 'The session has finished.' };
+  const say = (text: string, stepIndex?: number): NextStep => ({ actions, text, ...(stepIndex !== undefined ? { stepIndex } : {}) });
+  switch (main) {
+    case 'ack-hold':
+      return say(`${holdText(state.hold!)} Acknowledge it.`);
+    case 'release-hold':
+      return say(`${holdText(state.hold!)} Release it when it is safe.`);
+    case 'begin':
+      return say(crewShortfall(state).length ? 'The minimum crew has not joined: wait, or begin short with a reason.' : 'Begin loading.');
+    case 'call-move':
+      return say(`Call ${lineSetLabel(state.lineSets.find((l) => l.stage === 'waiting')!.name)} in to the loading position.`);
+    case 'answer-clear':
+      return say(`${capital(label)} is coming in: look around, get clear, and answer "clear".`);
+    case 'confirm-locked':
+      return say(`Everyone has answered "clear": confirm ${label} is in position and locked.`);
+    case 'confirm-tie-off':
+      return say(`Tie off ${label} at the rail, then confirm.`);
+    case 'call-clear-rail':
+      return say('Call to clear the rail.');
+    case 'confirm-rail-clear':
+      return say('Step at least 10 ft back from the rail and out from under the gallery, keep watch, then confirm.');
+    case 'confirm-step': {
+      const i = nextWorkStepIndex(ls!);
+      return say(`${capital(stepText(ls!, i))}, then confirm.`, i);
+    }
+    case 'call-loading-complete':
+      return say('Every step is done: call "loading complete".');
+    case 'confirm-untie':
+      return say(`Return to the rail, untie ${label}, then confirm.`);
+    case 'record-test':
+      return say(
+        ls?.stage === 'tested' && ls.flagged
+          ? `${capital(label)} is flagged out of balance: correct it, test again and record the result.`
+          : `Test the balance of ${label} and record the result.`,
+      );
+    default: {
+      if (me.role === 'rail' && ls?.stage === 'rail-clear') {
+        return say('Stay at least 10 ft back from the rail and keep watch until the loaders call "loading complete".');
+      }
+      return say(`Wait: ${waitingOn(state).text.replace(/^[A-Z]/, (c) => c.toLowerCase())}`);
+    }
+  }
+}
+
+export interface SilentPerson extends Named {
+  /** How long since the call, the last re-alert or the last hold release, whichever is latest (ms). */
+  silentForMs: number;
+  /** How many times Railcall has re-alerted this person for this call. */
+  reAlerts: number;
+  /** When this person is next due a re-alert (ms since 1970, server clock). */
+  nextReAlertAtMs: number;
+  /** True once the venue's re-alert time has passed: re-alert them now. */
+  due: boolean;
+}
+
+/**
+ * The people who still owe a "clear" to the open move call, with how long they have been silent.
+ * The server's timer re-alerts everyone `due` (system action `re-alert`), then sleeps until
+ * `nextReAlertAtMs(state)`. Silence counts from the call, the person's last re-alert, the end of the
+ * last hold, or when they joined, whichever is latest. Nobody is due during a hold (the hold stops everything).
+ */
+export function silentSince(state: SessionState, nowMs: number): SilentPerson[] {
+  const ls = activeLineSet(state);
+  if (state.hold || state.phase !== 'loading' || !ls?.call || ls.stage !== 'move-called') return [];
+  const periodMs = state.settings.reAlertSeconds * 1000;
+  return notYetClear(state).map((p) => {
+    const alert = ls.call!.alerts.find((a) => a.personId === p.personId);
+    const fromMs = Math.max(ls.call!.calledAtMs, alert?.lastMs ?? 0, state.lastHoldReleasedAtMs ?? 0, p.joinedAtMs);
+    return {
+      ...named(p),
+      silentForMs: Math.max(0, nowMs - fromMs),
+      reAlerts: alert?.count ?? 0,
+      nextReAlertAtMs: fromMs + periodMs,
+      due: nowMs - fromMs >= periodMs,
+    };
+  });
+}
+
+/** When the server's re-alert timer should next fire, or null when nobody owes an answer. */
+export function nextReAlertAtMs(state: SessionState): number | null {
+  const silent = silentSince(state, 0);
+  return silent.length ? Math.min(...silent.map((p) => p.nextReAlertAtMs)) : null;
+}
+
+/** A log entry as the table shows it: the draft plus the person's name (LogEntry has both). */
+export type DescribableEntry = LogDraft & { personName?: string };
+
+/**
+ * One plain sentence for a log entry ("Jo Castellan called line set 7 in to the loading position.").
+ * Line set names come from the entry's details, else from `state`, else the id.
+ */
+export function describeEntry(entry: DescribableEntry, state?: SessionState): string {
+  const who = entry.personName ?? (entry.role === 'system' ? 'Railcall' : 'Someone');
+  const d = entry.details as Record<string, any>;
+  const lsName: string | undefined =
+    d.lineSetName ?? state?.lineSets.find((l) => l.id === entry.lineSetId)?.name ?? entry.lineSetId;
+  const label = lsName ? lineSetLabel(lsName) : 'the line set';
+  const roleWord = entry.role && entry.role !== 'system' ? ROLE_LABELS[entry.role].toLowerCase() : '';
+  switch (entry.kind) {
+    case 'joined':
+      return `${who} joined as ${roleWord}${d.lead ? ' and leads the session' : ''}.`;
+    case 'left':
+      return `${who} left the session.${d.newLeadName ? ` ${d.newLeadName} now leads.` : d.newLeadPersonId === null ? ' Nobody leads until a rail operator joins.' : ''}`;
+    case 'began':
+      return d.shortCrewReason
+        ? `${who} began loading short of the minimum crew: "${d.shortCrewReason}".`
+        : `${who} began loading.`;
+    case 'move-called':
+      return `${who} called ${label} in to the loading position.`;
+    case 'clear-answered':
+      return `${who} answered "clear" for ${label}.`;
+    case 'locked':
+      return `${who} confirmed ${label} is in position and locked.`;
+    case 'tied-off':
+      return `${who} tied off ${label} at the rail.`;
+    case 'rail-clear-called':
+      return `${who} called to clear the rail for ${label}.`;
+    case 'rail-clear-confirmed':
+      return `${who} confirmed the rail is clear for ${label} (stepped back at least 10 ft, keeping watch).`;
+    case 'step-confirmed':
+      return `${who} ${d.text ?? `confirmed step ${(entry.stepIndex ?? 0) + 1}`} on ${label}: now ${balanceText(Number(d.imbalanceKg))}.`;
+    case 'loading-complete':
+      return `${who} called "loading complete" on ${label}.`;
+    case 'untied':
+      return `${who} untied ${label}.`;
+    case 'test-recorded': {
+      const result = d.result === 'balanced' ? 'balanced' : `${d.result} by about ${d.estimateKg} kg`;
+      const note = d.note ? ` ("${d.note}")` : '';
+      const flag = d.flagCleared ? ' The flag is cleared.' : d.flagged ? ' It stays flagged until corrected.' : '';
+      return `${who} tested ${label}: ${result}${note}.${flag}`;
+    }
+    case 'hold-called':
+      return `${who} called a hold${d.reason ? `: "${d.reason}"` : ''}.`;
+    case 'hold-acknowledged':
+      return `${who} acknowledged the hold.`;
+    case 'hold-released':
+      return `${who} released the hold.`;
+    case 'note':
+      return `${who} noted: "${d.text}".`;
+    case 'ended':
+      return `${who} ended the session: "${d.reason}".`;
+    case 'finished':
+      return 'Every line set is tested in balance: the session is finished.';
+    case 're-alerted': {
+      const people = Array.isArray(d.people) ? d.people.map((p: { name: string }) => p.name) : [];
+      return `Railcall re-alerted ${nameList(people)}: no "clear" yet for ${label}.`;
+    }
+    case 'refused':
+      return `${who} was refused "${String(d.action?.type ?? 'an action').replace(/-/g, ' ')}": ${d.reason}`;
+    default:
+      return `${who}: ${entry.kind}.`;
+  }
+}
