@@ -1,5 +1,5 @@
 import { defineConfig } from '@playwright/test';
-import { E2E_BASE_PORT, LANES } from './support/lanes';
+import { E2E_BASE_PORT, LANES, laneUrl } from './support/lanes';
 
 // Debian's chromium, never a downloaded browser. The flags keep it off the (closed) network.
 const CHROMIUM_ARGS = [
@@ -18,6 +18,8 @@ export default defineConfig({
   timeout: 90_000,
   expect: { timeout: 10_000 },
   use: {
+    // Specs of other lanes set their own with test.use({ baseURL: laneUrl('...') }).
+    baseURL: laneUrl('sign-in'),
     viewport: { width: 360, height: 740 },
     hasTouch: true,
     colorScheme: 'dark',
