@@ -42,6 +42,22 @@ function prepare(stock: BrickStock[]): Prepared {
   return { items, suffixKg };
 }
 
+/**
+ * Remembers each (type reached, total so far) with the fewest bricks it was reached with. Reaching it again
+ * with no fewer bricks cannot lead anywhere better, so that branch is skipped. Venues' bricks are multiples of
+ * a common unit (full, half, quarter), so totals repeat often and this turns the search into a small table.
+ */
+function memo(n: number): (i: number, kg: number, bricks: number) => boolean {
+  const levels = Array.from({ length: n + 1 }, () => new Map<number, number>());
+  return (i, kg, bricks) => {
+    const key = Math.round(kg / EPS);
+    const before = levels[i].get(key);
+    if (before !== undefined && before <= bricks) return true;
+    levels[i].set(key, bricks);
+    return false;
+  };
+}
+
 function toPick(items: BrickStock[], counts: number[], totalKg: number): BrickPick {
   const picks: BrickCounts = {};
   items.forEach((item, i) => {
@@ -63,7 +79,9 @@ export function chooseBricks(targetKg: number, stock: BrickStock[]): BrickPick {
   let bestCounts = counts.slice();
   if (!(targetKg > 0) || n === 0) return { picks: {}, totalKg: 0 };
 
+  const seen = memo(n);
   const visit = (i: number, kg: number, bricks: number): void => {
+    if (seen(i, kg, bricks)) return;
     const reachableKg = Math.min(targetKg, kg + suffixKg[i]);
     if (reachableKg < bestKg - EPS) return;
     if (reachableKg <= bestKg + EPS && i < n) {
@@ -105,7 +123,9 @@ export function chooseBricksAtLeast(minKg: number, stock: BrickStock[]): BrickPi
   let bestBricks = Infinity;
   let bestCounts = counts.slice();
 
+  const seen = memo(n);
   const visit = (i: number, kg: number, bricks: number): void => {
+    if (seen(i, kg, bricks)) return;
     if (kg >= minKg - EPS) {
       // Enough: any further brick only adds weight.
       if (kg < bestKg - EPS || (kg <= bestKg + EPS && bricks < bestBricks)) {
