@@ -18,6 +18,11 @@ import { peopleRoutes } from './features/people/people.routes';
 import { ScheduleService } from './features/schedule/schedule.service';
 import { scheduleRoutes } from './features/schedule/schedule.routes';
 import { createIo, endSignIn, type RailcallServer } from './realtime/io';
+import { SessionsService } from './features/sessions/sessions.service';
+import { sessionRoutes } from './features/sessions/sessions.routes';
+import { broadcastCommitted, sessionSocketFeature } from './features/sessions/sessions.handlers';
+import { PresenceTracker } from './features/sessions/presence';
+import { ReAlertTimer } from './features/sessions/re-alert';
 
 export interface AppDeps {
   config: Config;
@@ -32,6 +37,9 @@ export interface RailcallApp {
   io: RailcallServer;
   /** Every API route, with its access rule (the access test walks this list). */
   routes: RouteSpec[];
+  sessions: SessionsService;
+  /** Starts background work that reads the database (re-alert timers of open sessions). */
+  start(): Promise<void>;
   /** Stops taking connections and closes what the app opened (not the DataSource it was given). */
   close(): Promise<void>;
 }
@@ -44,6 +52,9 @@ export function createApp({ config, db, logger }: AppDeps): RailcallApp {
   const people = new PeopleService(db);
   const passport = createPassport(people);
   const schedule = new ScheduleService(db);
+  const sessions = new SessionsService(db, schedule, people);
+  const presence = new PresenceTracker();
+  const reAlerts = new ReAlertTimer(sessions, logger);
 
   let io: RailcallServer | undefined;
   const routes: RouteSpec[] = [
@@ -55,6 +66,7 @@ export function createApp({ config, db, logger }: AppDeps): RailcallApp {
     }),
     ...peopleRoutes(people),
     ...scheduleRoutes(schedule),
+    ...sessionRoutes(sessions, presence),
   ];
 
   app.disable('x-powered-by');
@@ -92,14 +104,22 @@ export function createApp({ config, db, logger }: AppDeps): RailcallApp {
   }
   app.use(errorHandler(logger, config.jsonLimit));
 
-  io = createIo(httpServer, session.middleware, passport, []);
+  io = createIo(httpServer, session.middleware, passport, [sessionSocketFeature(sessions, presence, logger)]);
+  // Broadcast only after commit; then set the session's re-alert timer from its new state.
+  sessions.onCommitted((c) => {
+    broadcastCommitted(io!, c);
+    reAlerts.track(c.sessionId, c.venueId, c.state);
+  });
 
   return {
     app,
     httpServer,
     io,
     routes,
+    sessions,
+    start: () => reAlerts.start(),
     async close() {
+      reAlerts.stop();
       await io.close();
       if (httpServer.listening) await new Promise<void>((r) => httpServer.close(() => r()));
       await session.close();

@@ -19,6 +19,7 @@ await owner.destroy();
 const db = createDataSource(config.db);
 await db.initialize();
 const railcall = createApp({ config, db, logger });
+await railcall.start();
 railcall.httpServer.listen(config.port, config.host, () => {
   const url = `http://localhost:${config.port}`;
   if (seeded) logger.info('seeded the demo venue');

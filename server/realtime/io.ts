@@ -2,7 +2,7 @@ import type { Server as HttpServer, IncomingMessage, ServerResponse } from 'node
 import type { RequestHandler } from 'express';
 import type { PassportStatic } from 'passport';
 import { Server, type Socket } from 'socket.io';
-import type { ClientToServerEvents, ServerToClientEvents } from '@shared/protocol/events';
+import { CLIENT_EVENTS, type ClientToServerEvents, type ServerToClientEvents } from '@shared/protocol/events';
 import type { SignedInUser } from '../features/people/people.service';
 
 export interface SocketData {
@@ -51,6 +51,12 @@ export function createIo(httpServer: HttpServer, session: RequestHandler, passpo
     socket.data.user = req.user as SignedInUser;
     socket.data.sessionId = req.sessionID as string;
     void socket.join([sessionRoom(socket.data.sessionId), personRoom(socket.data.user.id)]);
+    // Deny by default: an event no feature serves is dropped before any handler sees it.
+    socket.use(([event], next) => {
+      if ((CLIENT_EVENTS as readonly string[]).includes(event)) next();
+      else next(new Error(`Unknown event: ${String(event).slice(0, 40)}`));
+    });
+    socket.on('error', () => {});
     for (const feature of features) feature(io, socket);
   });
   return io;

@@ -1,11 +1,18 @@
 /**
- * Socket.IO event maps shared by the server and the client.
- * Placeholder written by the client shell; the server side owns and extends it.
+ * Socket.IO event maps shared by the server and the client: one contract, two sides.
+ * Client requests are imperative (`session:act`); server broadcasts are past tense or nouns.
  */
-export interface ServerToClientEvents {
-  /** Sent to every socket of a person just before the server disconnects them at sign-out. */
+import type { SessionClientToServerEvents, SessionServerToClientEvents } from './session/events';
+import type { PresenceEntry } from './sessions-api';
+
+export interface ServerToClientEvents extends SessionServerToClientEvents {
+  /** Sent to every socket of a sign-in just before the server disconnects them at sign-out. */
   'auth:signed-out': () => void;
+  /** Who has the session open now, after someone connects or drops. */
+  'session:presence': (payload: { sessionId: number; presence: PresenceEntry[] }) => void;
 }
 
-// eslint-disable-next-line @typescript-eslint/no-empty-object-type
-export interface ClientToServerEvents {}
+export type ClientToServerEvents = SessionClientToServerEvents;
+
+/** Every event a phone may send; anything else is refused before any handler (deny by default). */
+export const CLIENT_EVENTS = ['session:watch', 'session:unwatch', 'session:act'] as const satisfies readonly (keyof ClientToServerEvents)[];

@@ -25,6 +25,7 @@ async function listen(database: TestDatabase, config: Config): Promise<TestApp> 
   const db = createDataSource(config.db, { poolSize: 10 });
   await db.initialize();
   const railcall = createApp({ config, db, logger: createLogger('silent') });
+  await railcall.start();
   await new Promise<void>((resolve) => railcall.httpServer.listen(0, '127.0.0.1', resolve));
   const { port } = railcall.httpServer.address() as AddressInfo;
   const stop = async () => {

@@ -1,0 +1,58 @@
+import type { EntityManager } from 'typeorm';
+import type { QueryDeepPartialEntity } from 'typeorm/query-builder/QueryPartialEntity.js';
+import type { LogDraft, LogEntry } from '@shared/protocol/session';
+import { entryHash } from './hash-chain';
+import { SessionEventRow, type LoadingSessionRow } from './session.entity';
+
+export interface EntryAuthor {
+  personId: number | null;
+  personName: string;
+  clientTimeMs: number | null;
+}
+
+/**
+ * Appends drafts to a session's log inside the caller's transaction, with the session row already
+ * locked: the next sequence numbers and the hash chain follow on from the row's last_seq/last_hash.
+ * Moves the row's counters on; the caller saves the row.
+ */
+export async function appendEntries(m: EntityManager, row: LoadingSessionRow, drafts: LogDraft[], author: EntryAuthor, nowMs: number): Promise<LogEntry[]> {
+  const entries: LogEntry[] = [];
+  for (const draft of drafts) {
+    const unsigned: Omit<LogEntry, 'hash'> = {
+      seq: row.lastSeq + 1,
+      serverTimeMs: nowMs,
+      clientTimeMs: author.clientTimeMs,
+      personId: author.personId,
+      personName: author.personName,
+      role: draft.role ?? null,
+      kind: draft.kind,
+      lineSetId: draft.lineSetId ?? null,
+      stepIndex: draft.stepIndex ?? null,
+      details: draft.details,
+      prevHash: row.lastHash,
+    };
+    const entry: LogEntry = { ...unsigned, hash: entryHash(unsigned) };
+    entries.push(entry);
+    row.lastSeq = entry.seq;
+    row.lastHash = entry.hash;
+  }
+  if (entries.length) await m.getRepository(SessionEventRow).insert(entries.map((e) => ({ ...e, sessionId: row.id }) as QueryDeepPartialEntity<SessionEventRow>));
+  return entries;
+}
+
+export function toLogEntry(row: SessionEventRow): LogEntry {
+  return {
+    seq: row.seq,
+    serverTimeMs: row.serverTimeMs,
+    clientTimeMs: row.clientTimeMs,
+    personId: row.personId,
+    personName: row.personName,
+    role: row.role as LogEntry['role'],
+    kind: row.kind,
+    lineSetId: row.lineSetId,
+    stepIndex: row.stepIndex,
+    details: row.details,
+    hash: row.hash,
+    prevHash: row.prevHash,
+  };
+}

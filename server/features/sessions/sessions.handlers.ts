@@ -1,0 +1,97 @@
+import { describeEntry, sessionActPayloadSchema, sessionWatchPayloadSchema, type LogEntry, type SessionState } from '@shared/protocol/session';
+import type { Ack, ApiError } from '@shared/protocol/ack';
+import { HttpError } from '../../middleware/http-error';
+import { personRoom, type RailcallServer, type SocketFeature } from '../../realtime/io';
+import type { Logger } from '../../logger';
+import type { PresenceTracker } from './presence';
+import type { SessionsService } from './sessions.service';
+
+export const sessionRoom = (sessionId: number) => `loading:${sessionId}`;
+
+/** Turns any failure into an error a phone can show; unexpected ones are logged in full here. */
+function toApiError(error: unknown, logger: Logger): ApiError {
+  if (error instanceof HttpError) return error.toBody().error;
+  logger.error({ err: error }, 'socket handler failed');
+  return { code: 'internal', message: 'Something went wrong on the server. Try again.' };
+}
+
+function safeAck<T>(ack: unknown): (res: Ack<T>) => void {
+  return typeof ack === 'function' ? (ack as (res: Ack<T>) => void) : () => {};
+}
+
+/** Socket events of live sessions: validate, decide (in the service's transaction), acknowledge; broadcast follows commit. */
+export function sessionSocketFeature(sessions: SessionsService, presence: PresenceTracker, logger: Logger): SocketFeature {
+  return (io, socket) => {
+    const user = () => socket.data.user;
+
+    const announcePresence = async (sessionId: number) => {
+      const { state } = await sessions.get(user(), sessionId);
+      io.to(sessionRoom(sessionId)).emit('session:presence', { sessionId, presence: presence.list(sessionId, state) });
+    };
+
+    socket.on('session:watch', async (payload, rawAck) => {
+      const ack = safeAck<{ state: SessionState; lastSeq: number; entries: LogEntry[] }>(rawAck);
+      try {
+        const parsed = sessionWatchPayloadSchema.safeParse(payload);
+        if (!parsed.success) throw new HttpError('bad-input', 'session:watch needs { sessionId, afterSeq? }.');
+        const { sessionId, afterSeq } = parsed.data;
+        const { state } = await sessions.get(user(), sessionId); // 404 for another venue's session
+        await socket.join(sessionRoom(sessionId));
+        const { entries, lastSeq } = await sessions.events(user(), sessionId, afterSeq ?? 0);
+        const arrived = presence.connect(sessionId, user().id, user().name, socket.id);
+        ack({ ok: true, state, lastSeq, entries });
+        if (arrived) await announcePresence(sessionId);
+      } catch (error) {
+        ack({ ok: false, error: toApiError(error, logger) });
+      }
+    });
+
+    socket.on('session:unwatch', async (payload) => {
+      const sessionId = Number((payload as { sessionId?: unknown } | undefined)?.sessionId);
+      if (!Number.isInteger(sessionId)) return;
+      await socket.leave(sessionRoom(sessionId));
+      if (presence.disconnect(socket.id, sessionId).length) await announcePresence(sessionId).catch(() => {});
+    });
+
+    socket.on('session:act', async (payload, rawAck) => {
+      const ack = safeAck<{ seq: number; state: SessionState }>(rawAck);
+      try {
+        const parsed = sessionActPayloadSchema.safeParse(payload);
+        if (!parsed.success) {
+          throw new HttpError('bad-input', `That action is not valid. ${parsed.error.issues.map((i) => `${i.path.join('.')}: ${i.message}`).join('; ')}`);
+        }
+        presence.touch(parsed.data.sessionId, user().id);
+        const { answer } = await sessions.act(user(), parsed.data.sessionId, parsed.data.envelope);
+        ack(answer.ok ? answer : { ok: false, error: answer.error });
+      } catch (error) {
+        ack({ ok: false, error: toApiError(error, logger) });
+      }
+    });
+
+    socket.on('disconnect', () => {
+      for (const sessionId of presence.disconnect(socket.id)) {
+        void sessions.get(user(), sessionId)
+          .then(({ state }) => io.to(sessionRoom(sessionId)).emit('session:presence', { sessionId, presence: presence.list(sessionId, state) }))
+          .catch(() => {});
+      }
+    });
+  };
+}
+
+/** After every commit: the new entries and state to the room, and alerts to whoever must look up. */
+export function broadcastCommitted(io: RailcallServer, c: { sessionId: number; entries: LogEntry[]; state: SessionState }): void {
+  io.to(sessionRoom(c.sessionId)).emit('session:entries', { sessionId: c.sessionId, entries: c.entries, state: c.state });
+  for (const entry of c.entries) {
+    const text = describeEntry({ ...entry, lineSetId: entry.lineSetId ?? undefined, stepIndex: entry.stepIndex ?? undefined }, c.state);
+    if (entry.kind === 're-alerted') {
+      const people = (entry.details.people as Array<{ personId: number; name: string }>) ?? [];
+      const alert = { sessionId: c.sessionId, kind: 're-alert' as const, lineSetId: entry.lineSetId, people, text, seq: entry.seq };
+      for (const p of people) io.to(personRoom(p.personId)).emit('session:alert', alert);
+    } else if (entry.kind === 'hold-called' || entry.kind === 'hold-released') {
+      const people = c.state.participants.map((p) => ({ personId: p.personId, name: p.name }));
+      io.to(sessionRoom(c.sessionId)).emit('session:alert', {
+        sessionId: c.sessionId, kind: entry.kind === 'hold-called' ? 'hold' : 'hold-released', lineSetId: entry.lineSetId, people, text, seq: entry.seq,
+      });
+    }
+  }
+}

@@ -1,0 +1,76 @@
+import { z } from 'zod';
+import { actionEnvelopeSchema } from '@shared/protocol/session';
+import { createSessionSchema, eventsQuerySchema, listSessionsQuerySchema } from '@shared/protocol/sessions-api';
+import type { ErrorCode } from '@shared/protocol/ack';
+import { HttpError } from '../../middleware/http-error';
+import { route, type RouteSpec } from '../../middleware/routes';
+import { idParam } from '../../middleware/validate';
+import type { SessionsService } from './sessions.service';
+import type { PresenceTracker } from './presence';
+import { verifyChain } from './hash-chain';
+
+const EVERYONE = { roles: 'any' } as const;
+
+export function sessionRoutes(sessions: SessionsService, presence: PresenceTracker): RouteSpec[] {
+  return [
+    route({
+      method: 'post',
+      path: '/sessions',
+      access: { roles: ['rail', 'admin'] },
+      status: 201,
+      body: createSessionSchema,
+      handler: ({ user, body }) => sessions.create(user, body),
+    }),
+    route({
+      method: 'get',
+      path: '/sessions',
+      access: EVERYONE,
+      query: listSessionsQuerySchema,
+      handler: async ({ user, query }) => ({ sessions: await sessions.list(user, query.active === '1') }),
+    }),
+    route({
+      method: 'get',
+      path: '/sessions/:id',
+      access: EVERYONE,
+      params: idParam,
+      async handler({ user, params }) {
+        const found = await sessions.get(user, params.id);
+        return { ...found, presence: presence.list(params.id, found.state) };
+      },
+    }),
+    route({
+      method: 'post',
+      path: '/sessions/:id/actions',
+      access: EVERYONE,
+      params: idParam,
+      body: actionEnvelopeSchema,
+      async handler({ user, params, body }) {
+        // The same decision path as the socket's session:act.
+        const { answer } = await sessions.act(user, params.id, body);
+        if (!answer.ok) throw new HttpError(answer.error.code as ErrorCode, answer.error.message);
+        return answer;
+      },
+    }),
+    route({
+      method: 'get',
+      path: '/sessions/:id/events',
+      access: EVERYONE,
+      params: idParam,
+      query: eventsQuerySchema,
+      handler: ({ user, params, query }) => sessions.events(user, params.id, query.after),
+    }),
+    route({
+      method: 'get',
+      path: '/sessions/:id/record',
+      access: EVERYONE,
+      params: idParam,
+      query: z.object({}),
+      async handler({ user, params }) {
+        // The kept record for export, with the check anyone can repeat on it.
+        const { session } = await sessions.get(user, params.id);
+        const { entries } = await sessions.events(user, params.id, 0);
+        return { session, entries, chain: verifyChain(entries), hashing: 'sha-256 over entryHashText (keys sorted), chained by prevHash' };
+      },
+    }),
+  ];
+}

@@ -1,0 +1,231 @@
+import type { DataSource, EntityManager } from 'typeorm';
+import {
+  actionEnvelopeSchema, createSessionState, decide, refusalToApiError, SessionPlanError, SYSTEM_ACTOR,
+  type ActionEnvelope, type Actor, type AnyAction, type LogEntry, type SessionState,
+} from '@shared/protocol/session';
+import { lineSetKey, planSession, sessionPlanErrors, type CreateSessionInput, type SessionSummary } from '@shared/protocol/sessions-api';
+import type { ApiError } from '@shared/protocol/ack';
+import { HttpError, notFound } from '../../middleware/http-error';
+import type { PeopleService, SignedInUser } from '../people/people.service';
+import { Person } from '../people/person.entity';
+import type { ScheduleService } from '../schedule/schedule.service';
+import { LineSetRow } from '../schedule/line-set.entity';
+import { ActionKeyRow, LoadingSessionRow, SessionEventRow, type StoredAnswer } from './session.entity';
+import { appendEntries, toLogEntry } from './session-log';
+import { writeBackTestedLineSets } from './schedule-writeback';
+
+/** What an action comes to: the answer for the phone, and what to broadcast (nothing on a repeat). */
+export interface ActOutcome {
+  answer: { ok: true; seq: number; state: SessionState } | { ok: false; seq: number; error: ApiError };
+  entries: LogEntry[];
+  state: SessionState;
+}
+
+/** Told after every commit that wrote entries: broadcasting never happens inside a transaction. */
+export type CommittedListener = (c: { sessionId: number; venueId: number; entries: LogEntry[]; state: SessionState }) => void;
+
+export class SessionsService {
+  private readonly listeners: CommittedListener[] = [];
+
+  constructor(
+    private readonly db: DataSource,
+    private readonly schedule: ScheduleService,
+    private readonly people: PeopleService,
+    private readonly now: () => number = Date.now,
+  ) {}
+
+  onCommitted(listener: CommittedListener): void {
+    this.listeners.push(listener);
+  }
+
+  private committed(sessionId: number, venueId: number, entries: LogEntry[], state: SessionState): void {
+    if (entries.length === 0) return;
+    for (const listener of this.listeners) listener({ sessionId, venueId, entries, state });
+  }
+
+  /** Plans the change from the schedule (the same planner the phone previews with) and opens a session. */
+  async create(user: SignedInUser, input: CreateSessionInput): Promise<{ session: SessionSummary; state: SessionState }> {
+    const nowMs = this.now();
+    const { row, entries } = await this.db.transaction(async (m) => {
+      const venue = await this.schedule.venue(user.venueId, m);
+      const ids = input.lineSets.map((l) => l.lineSetId);
+      // Lock the line sets: two leads cannot both open sessions on the same set.
+      await m.getRepository(LineSetRow).createQueryBuilder('l').setLock('pessimistic_write')
+        .where('l.venue_id = :venueId AND l.id IN (:...ids)', { venueId: user.venueId, ids }).getMany();
+      const lineSets = await this.schedule.lineSets(user.venueId, m, ids);
+      const missing = ids.filter((id) => !lineSets.some((l) => l.id === id));
+      if (missing.length) throw new HttpError('bad-input', `No such line set at this venue: ${missing.join(', ')}.`, { lineSets: ['Unknown line set'] });
+      await this.refuseBusyLineSets(m, user.venueId, ids);
+
+      const planned = planSession({ venue, lineSets, brickTypes: await this.schedule.brickTypes(user.venueId, m) }, input);
+      const errors = sessionPlanErrors(planned);
+      if (errors.length) throw new HttpError('bad-input', `The plan cannot be run: ${errors.join(' ')}`, { lineSets: errors });
+      let state: SessionState;
+      try {
+        state = createSessionState({
+          lineSets: planned.map((p) => ({
+            id: lineSetKey(p.scheduleId),
+            name: p.name,
+            steps: p.result.steps,
+            load: { purchase: p.input.purchase, pipeKg: p.input.pipeKg, arborKg: p.input.arborKg, pieces: p.input.pieces, bricks: p.input.bricks },
+            brickTypes: p.input.brickTypes,
+            ropeLockLimitKg: p.input.ropeLockLimitKg,
+            pieceNames: p.pieceNames,
+          })),
+          settings: { minCrew: venue.settings.minCrew, reAlertSeconds: venue.settings.reAlertSeconds },
+        });
+      } catch (error) {
+        if (error instanceof SessionPlanError) throw new HttpError('bad-input', `The plan cannot be run: ${error.message}`);
+        throw error;
+      }
+      const row = await m.getRepository(LoadingSessionRow).save(m.getRepository(LoadingSessionRow).create({
+        venueId: user.venueId,
+        title: input.title,
+        phase: state.phase,
+        state,
+        plan: {
+          lineSets: planned.map((p) => ({ scheduleId: p.scheduleId, key: lineSetKey(p.scheduleId), newPieces: p.newPieces, warnings: p.result.warnings })),
+        },
+        createdBy: user.id,
+        createdAtMs: nowMs,
+        lastSeq: 0,
+        lastHash: '',
+      }));
+      const entries = await appendEntries(m, row, [{
+        kind: 'session-opened',
+        role: null,
+        details: { title: input.title, lineSets: planned.map((p) => ({ id: lineSetKey(p.scheduleId), name: p.name, steps: p.result.steps.length })) },
+      }], { personId: user.id, personName: user.name, clientTimeMs: null }, nowMs);
+      await m.getRepository(LoadingSessionRow).update({ id: row.id }, { lastSeq: row.lastSeq, lastHash: row.lastHash });
+      return { row, entries };
+    });
+    this.committed(row.id, user.venueId, entries, row.state);
+    return { session: this.summary(row, user.name), state: row.state };
+  }
+
+  private async refuseBusyLineSets(m: EntityManager, venueId: number, ids: number[]): Promise<void> {
+    const open = await m.getRepository(LoadingSessionRow).createQueryBuilder('s')
+      .where("s.venue_id = :venueId AND s.phase <> 'finished'", { venueId }).getMany();
+    for (const s of open) {
+      const busy = s.plan.lineSets.filter((l) => ids.includes(l.scheduleId));
+      if (busy.length) {
+        throw new HttpError('conflict', `${s.state.lineSets.find((l) => l.id === busy[0].key)?.name ?? 'A line set'} is already in the open session "${s.title}". Finish or end that session first.`);
+      }
+    }
+  }
+
+  async list(user: SignedInUser, activeOnly: boolean): Promise<SessionSummary[]> {
+    const qb = this.db.getRepository(LoadingSessionRow).createQueryBuilder('s')
+      .where('s.venue_id = :venueId', { venueId: user.venueId }).orderBy('s.id', 'DESC').limit(100);
+    if (activeOnly) qb.andWhere("s.phase <> 'finished'");
+    const rows = await qb.getMany();
+    const names = await this.names(rows.map((r) => r.createdBy));
+    return rows.map((r) => this.summary(r, names.get(r.createdBy) ?? ''));
+  }
+
+  async get(user: SignedInUser, id: number): Promise<{ session: SessionSummary; state: SessionState; lastSeq: number }> {
+    const row = await this.row(user, id);
+    const names = await this.names([row.createdBy]);
+    return { session: this.summary(row, names.get(row.createdBy) ?? ''), state: row.state, lastSeq: row.lastSeq };
+  }
+
+  /** The log after a sequence number: a phone that reconnects asks for exactly what it missed. */
+  async events(user: SignedInUser, id: number, afterSeq: number): Promise<{ entries: LogEntry[]; lastSeq: number }> {
+    const row = await this.row(user, id);
+    const rows = await this.db.getRepository(SessionEventRow).createQueryBuilder('e')
+      .where('e.session_id = :id AND e.seq > :afterSeq', { id, afterSeq }).orderBy('e.seq', 'ASC').getMany();
+    return { entries: rows.map(toLogEntry), lastSeq: Math.max(row.lastSeq, rows.at(-1)?.seq ?? 0) };
+  }
+
+  /**
+   * One action from a phone (HTTP or socket alike): validated, then decided with the session row
+   * locked (SELECT ... FOR UPDATE) so actions from two phones are taken one after the other, and the
+   * decision, its log entries and the key's answer are written in the same transaction.
+   */
+  async act(user: SignedInUser, sessionId: number, rawEnvelope: unknown): Promise<ActOutcome> {
+    const parsed = actionEnvelopeSchema.safeParse(rawEnvelope);
+    if (!parsed.success) {
+      const detail = parsed.error.issues.map((i) => `${i.path.join('.') || 'action'}: ${i.message}`).join('; ');
+      throw new HttpError('bad-input', `That action is not valid. ${detail}`);
+    }
+    // The roles held right now, not those at sign-in: a removed role stops working at once.
+    const fresh = await this.people.loadUser(user.id);
+    if (!fresh || fresh.venueId !== user.venueId) throw notFound('That loading session');
+    const actor: Actor = { personId: fresh.id, name: fresh.name, venueRoles: fresh.roles };
+    return this.decideAndRecord(fresh, sessionId, parsed.data, actor);
+  }
+
+  /** Railcall's own action (re-alerts), decided and logged like anyone's. */
+  async actAsSystem(venueId: number, sessionId: number, action: AnyAction): Promise<ActOutcome> {
+    const user: SignedInUser = { id: SYSTEM_ACTOR.personId, name: SYSTEM_ACTOR.name, email: '', venueId, roles: [] };
+    return this.decideAndRecord(user, sessionId, { key: '', clientTimeMs: 0, action: action as ActionEnvelope['action'] }, SYSTEM_ACTOR);
+  }
+
+  private async decideAndRecord(user: SignedInUser, sessionId: number, envelope: ActionEnvelope, actor: Actor): Promise<ActOutcome> {
+    const outcome = await this.db.transaction(async (m): Promise<ActOutcome> => {
+      const row = await m.getRepository(LoadingSessionRow).createQueryBuilder('s').setLock('pessimistic_write')
+        .where('s.id = :sessionId AND s.venue_id = :venueId', { sessionId, venueId: user.venueId }).getOne();
+      if (!row) throw notFound('That loading session');
+      // Looked up under the lock: a retry racing its original waits for it, then sees its answer.
+      if (envelope.key) {
+        const prior = await m.getRepository(ActionKeyRow).findOneBy({ sessionId, key: envelope.key });
+        if (prior) return { answer: restore(prior.answer, row.state), entries: [], state: row.state };
+      }
+      const nowMs = this.now();
+      const before = row.state;
+      const decision = decide(before, envelope.action as AnyAction, actor, nowMs);
+      const isSystem = actor.personId === SYSTEM_ACTOR.personId;
+      const author = { personId: isSystem ? null : user.id, personName: user.name, clientTimeMs: isSystem ? null : envelope.clientTimeMs };
+      const entries = await appendEntries(m, row, decision.ok ? decision.entries : [decision.entry], author, nowMs);
+      if (decision.ok) {
+        row.state = decision.state;
+        row.phase = decision.state.phase;
+        await writeBackTestedLineSets(m, user.venueId, row.plan, before, decision.state);
+      }
+      await m.getRepository(LoadingSessionRow).update({ id: row.id }, { state: row.state, phase: row.phase, lastSeq: row.lastSeq, lastHash: row.lastHash });
+      const answer: StoredAnswer = decision.ok
+        ? { ok: true, seq: row.lastSeq }
+        : { ok: false, seq: row.lastSeq, error: refusalToApiError(decision) };
+      if (envelope.key) {
+        await m.getRepository(ActionKeyRow).insert({ sessionId, key: envelope.key, personId: user.id, answer, createdAtMs: nowMs });
+      }
+      return { answer: restore(answer, row.state), entries, state: row.state };
+    });
+    this.committed(sessionId, user.venueId, outcome.entries, outcome.state);
+    return outcome;
+  }
+
+  /** Sessions still going, for the re-alert timer after a restart. */
+  async openSessions(): Promise<Array<{ id: number; venueId: number; state: SessionState }>> {
+    const rows = await this.db.getRepository(LoadingSessionRow).createQueryBuilder('s').where("s.phase = 'loading'").getMany();
+    return rows.map((r) => ({ id: r.id, venueId: r.venueId, state: r.state }));
+  }
+
+  private async row(user: SignedInUser, id: number): Promise<LoadingSessionRow> {
+    // Another venue's session is answered exactly like one that does not exist.
+    const row = await this.db.getRepository(LoadingSessionRow).findOneBy({ id, venueId: user.venueId });
+    if (!row) throw notFound('That loading session');
+    return row;
+  }
+
+  private async names(ids: number[]): Promise<Map<number, string>> {
+    if (ids.length === 0) return new Map();
+    const people = await this.db.getRepository(Person).createQueryBuilder('p').where('p.id IN (:...ids)', { ids: [...new Set(ids)] }).getMany();
+    return new Map(people.map((p) => [p.id, p.name]));
+  }
+
+  private summary(row: LoadingSessionRow, createdByName: string): SessionSummary {
+    return {
+      id: row.id,
+      title: row.title,
+      phase: row.phase,
+      createdAtMs: row.createdAtMs,
+      createdByName,
+      lineSets: row.state.lineSets.map((l) => ({ id: l.id, name: l.name })),
+    };
+  }
+}
+
+function restore(answer: StoredAnswer, state: SessionState): ActOutcome['answer'] {
+  return answer.ok ? { ok: true, seq: answer.seq, state } : { ok: false, seq: answer.seq, error: answer.error as ApiError };
+}

@@ -1,0 +1,102 @@
+import { z } from 'zod';
+import { planChange, type BrickCounts, type PlanInput, type PlanResult } from '../rigging';
+import type { SessionState } from './session/state';
+import type { ScheduleView } from './schedule';
+
+/** `POST /api/sessions`: a plan of one or more line sets, each with pieces to take off and to hang. */
+export const createSessionSchema = z.object({
+  title: z.string().trim().min(1, 'Give the session a title').max(120),
+  lineSets: z.array(z.object({
+    lineSetId: z.number().int().positive(),
+    /** Ids of pieces hanging on the set now, to take off. */
+    remove: z.array(z.number().int().positive()).max(50).default([]),
+    /** Pieces to hang. */
+    add: z.array(z.object({
+      name: z.string().trim().min(1, 'Name the piece').max(80),
+      massKg: z.number().positive('Give a weight above zero').max(5000),
+      positionM: z.number().min(0).max(100).nullable().optional(),
+    })).max(50).default([]),
+  })).min(1, 'Pick at least one line set').max(20)
+    .refine((sets) => new Set(sets.map((s) => s.lineSetId)).size === sets.length, 'A line set appears twice'),
+});
+export type CreateSessionInput = z.infer<typeof createSessionSchema>;
+
+export const eventsQuerySchema = z.object({ after: z.coerce.number().int().min(0).default(0) });
+export const listSessionsQuerySchema = z.object({ active: z.enum(['0', '1']).optional() });
+
+export interface SessionSummary {
+  id: number;
+  title: string;
+  phase: SessionState['phase'];
+  createdAtMs: number;
+  createdByName: string;
+  lineSets: { id: string; name: string }[];
+}
+
+/** Someone with a session open on a phone right now, or lately. */
+export interface PresenceEntry {
+  personId: number;
+  name: string;
+  role: string | null;
+  connected: boolean;
+  lastSeenMs: number;
+}
+
+/** Piece ids inside a session plan: hung pieces by their database id, new ones by their order. */
+export const pieceKey = (pieceId: number) => `p${pieceId}`;
+export const newPieceKey = (lineSetId: number, index: number) => `n${lineSetId}-${index + 1}`;
+/** Line set ids inside a session plan. */
+export const lineSetKey = (lineSetId: number) => `ls${lineSetId}`;
+
+// ---------------------------------------------------------------------------------------------
+// One plan builder for both sides: the client previews exactly what the server stores.
+
+export interface PlannedLineSet {
+  /** line_set.id in the schedule. */
+  scheduleId: number;
+  input: PlanInput;
+  result: PlanResult;
+  /** The session's name for the line set ("Line set 7 (Sea-mist drapes)"). */
+  name: string;
+  pieceNames: Record<string, string>;
+  newPieces: Array<{ key: string; name: string; massKg: number; positionM: number | null }>;
+}
+
+/**
+ * Plans every line set of a session request in order. The bridge's stock carries from one line set
+ * to the next: bricks pulled from the first can go on the second.
+ */
+export function planSession(schedule: Pick<ScheduleView, 'venue' | 'lineSets' | 'brickTypes'>, request: CreateSessionInput): PlannedLineSet[] {
+  const brickTypes = schedule.brickTypes.map((b) => ({ type: b.code, massKg: b.massKg, ...(b.heightM ? { heightM: b.heightM } : {}) }));
+  let bridgeStock: BrickCounts = Object.fromEntries(schedule.brickTypes.map((b) => [b.code, b.bridgeCount]));
+  return request.lineSets.map((asked) => {
+    const ls = schedule.lineSets.find((l) => l.id === asked.lineSetId);
+    if (!ls) throw new Error(`Line set ${asked.lineSetId} is not on this venue's schedule.`);
+    const newPieces = asked.add.map((p, i) => ({ key: newPieceKey(ls.id, i), name: p.name, massKg: p.massKg, positionM: p.positionM ?? null }));
+    const input: PlanInput = {
+      purchase: ls.purchase,
+      pipeKg: ls.pipeKg,
+      arborKg: ls.arborKg,
+      pieces: ls.pieces.map((p) => ({ id: pieceKey(p.id), massKg: p.massKg })),
+      bricks: { ...ls.bricks },
+      brickTypes,
+      bridgeStock,
+      remove: asked.remove.map(pieceKey),
+      add: newPieces.map((p) => ({ id: p.key, massKg: p.massKg })),
+      ropeLockLimitKg: schedule.venue.settings.ropeLockLimitKg,
+      arborCapacityKg: ls.arborCapacityKg,
+    };
+    const result = planChange(input);
+    bridgeStock = result.final.bridgeStock;
+    const pieceNames = Object.fromEntries([
+      ...ls.pieces.map((p) => [pieceKey(p.id), p.name] as const),
+      ...newPieces.map((p) => [p.key, p.name] as const),
+    ]);
+    return { scheduleId: ls.id, input, result, name: `Line set ${ls.number} (${ls.name})`, pieceNames, newPieces };
+  });
+}
+
+/** Every error of a session plan, each naming its line set. Empty when the plan can run. */
+export function sessionPlanErrors(planned: PlannedLineSet[]): string[] {
+  return planned.flatMap((p) => p.result.warnings.filter((w) => w.severity === 'error').map((w) => `${p.name}: ${w.message}`));
+}
