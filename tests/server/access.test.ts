@@ -10,12 +10,21 @@ const WHO: Who[] = ['nobody', 'admin', 'rail', 'loader', 'deck', 'stage-manager'
 const EVERYONE: Who[] = ['admin', 'rail', 'loader', 'deck', 'stage-manager'];
 
 let counter = 0;
+interface Ctx {
+  personId: number;
+  sessionId: number;
+  /** A line set no session holds yet, for each session opened here. */
+  freeLineSet(): number;
+  who: Who;
+}
 interface Case {
   /** Who gets through; everyone else gets 401 (nobody) or 403. */
   allowed: Who[];
   okStatus: number;
+  /** Where the route lets someone in but the session's own rules answer otherwise. */
+  otherwise?: Partial<Record<Who, number>>;
   /** A request that is valid when allowed. */
-  send(agent: Agent, ctx: { personId: number }): request.Test;
+  send(agent: Agent, ctx: Ctx): request.Test;
 }
 
 /** Every API route: the test fails when a route exists that this table does not list. */
@@ -41,12 +50,28 @@ const TABLE: Record<string, Case> = {
   },
   'get /venue': { allowed: EVERYONE, okStatus: 200, send: (a) => a.get('/api/venue') },
   'get /schedule': { allowed: EVERYONE, okStatus: 200, send: (a) => a.get('/api/schedule') },
+  'post /sessions': {
+    allowed: ['admin', 'rail'], okStatus: 201,
+    send: (a, c) => a.post('/api/sessions').send({ title: 'Access check', lineSets: [{ lineSetId: c.freeLineSet(), remove: [], add: [] }] }),
+  },
+  'get /sessions': { allowed: EVERYONE, okStatus: 200, send: (a) => a.get('/api/sessions?active=1') },
+  'get /sessions/:id': { allowed: EVERYONE, okStatus: 200, send: (a, c) => a.get(`/api/sessions/${c.sessionId}`) },
+  'post /sessions/:id/actions': {
+    // Joining in one's own role; the admin holds no session role, so the session itself refuses (403).
+    allowed: EVERYONE, okStatus: 200, otherwise: { admin: 403 },
+    send: (a, c) => a.post(`/api/sessions/${c.sessionId}/actions`)
+      .send({ key: `access-${c.who}-${++counter}`, clientTimeMs: Date.now(), action: { type: 'join', role: c.who === 'admin' ? 'rail' : c.who } }),
+  },
+  'get /sessions/:id/events': { allowed: EVERYONE, okStatus: 200, send: (a, c) => a.get(`/api/sessions/${c.sessionId}/events?after=0`) },
+  'get /sessions/:id/record': { allowed: EVERYONE, okStatus: 200, send: (a, c) => a.get(`/api/sessions/${c.sessionId}/record`) },
 };
 
 describe('API access by role and venue', () => {
   let t: TestApp;
   const agents = {} as Record<Who, Agent>;
   let deckPersonId: number;
+  let sessionId: number;
+  let freeLineSets: number[];
 
   beforeAll(async () => {
     t = await startTestApp();
@@ -57,7 +82,12 @@ describe('API access by role and venue', () => {
     }
     const [deck] = await t.database.owner.query("SELECT id FROM person WHERE email = 'deck@larkspur.example'");
     deckPersonId = deck.id;
+    const sets = await t.database.owner.query('SELECT id FROM line_set ORDER BY number');
+    freeLineSets = sets.map((r: { id: number }) => r.id);
+    const opened = await agents.rail.post('/api/sessions').send({ title: 'Watched', lineSets: [{ lineSetId: freeLineSets.pop(), remove: [], add: [] }] });
+    sessionId = opened.body.session.id;
   });
+  const ctx = (who: Who): Ctx => ({ personId: deckPersonId, sessionId, who, freeLineSet: () => freeLineSets.pop()! });
   afterAll(async () => { await t.close(); });
 
   it('lists every route of the app in the table', () => {
@@ -69,9 +99,9 @@ describe('API access by role and venue', () => {
     for (const who of WHO) {
       // Sign-out would end the shared agents' sign-ins: it is checked with fresh ones below.
       if (key === 'post /auth/sign-out') continue;
-      const expected = c.allowed.includes(who) ? c.okStatus : who === 'nobody' ? 401 : 403;
+      const expected = c.allowed.includes(who) ? (c.otherwise?.[who] ?? c.okStatus) : who === 'nobody' ? 401 : 403;
       it(`${key} as ${who} -> ${expected}`, async () => {
-        const res = await c.send(agents[who], { personId: deckPersonId });
+        const res = await c.send(agents[who], ctx(who));
         expect(res.status, JSON.stringify(res.body)).toBe(expected);
         if (expected === 401 || expected === 403) expect(res.body.error.code).toBe(expected === 401 ? 'unauthenticated' : 'forbidden');
       });
@@ -81,7 +111,7 @@ describe('API access by role and venue', () => {
   it('post /auth/sign-out -> 204 for anyone', async () => {
     for (const who of WHO) {
       const agent = who === 'nobody' ? request.agent(t.url) : await signedIn(t.url, DEMO_ACCOUNTS.find((a) => a.roles[0] === who)!.email);
-      expect((await TABLE['post /auth/sign-out'].send(agent, { personId: 0 })).status).toBe(204);
+      expect((await TABLE['post /auth/sign-out'].send(agent, ctx(who))).status).toBe(204);
     }
   });
 
