@@ -5,8 +5,8 @@ import {
   createSessionState,
   decide,
   notYetClear,
-  type PlanStep,
 } from '@shared/protocol/session';
+import type { PlanStep } from '@shared/rigging';
 import { Session, alex, jo, kit, lee, robin, sam, trussLineSet, twoDrapeLineSet, ROPE_LOCK_LIMIT_KG } from './fixtures';
 
 describe('createSessionState', () => {

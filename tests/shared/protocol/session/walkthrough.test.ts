@@ -4,9 +4,10 @@ import {
   describeEntry,
   nextStepFor,
   waitingOn,
+  type Actor,
   type LogDraft,
 } from '@shared/protocol/session';
-import { Session, alex, jo, kit, robin, sam, type Actor } from './fixtures';
+import { Session, alex, jo, kit, robin, sam } from './fixtures';
 
 /**
  * A whole unload of line set 7 (two 18 kg drapes, four 9 kg bricks, single purchase), in the
