@@ -223,6 +223,9 @@ export const RULES: RuleTable = {
     atRail: false,
     apply({ state, me, nowMs }) {
       const ls = activeLineSet(state);
+      if (ls && ls.stage !== 'tested' && pastStage(ls, 'move-called')) {
+        return alreadyDone(`${capital(lineSetLabel(ls.name))} is already in position and locked.`, { lineSetId: ls.id });
+      }
       if (!ls || ls.stage !== 'move-called' || !ls.call) {
         return refuse('No move has been called: there is nothing to answer yet.');
       }

@@ -48,13 +48,18 @@ function probe(type: ActionType, state: SessionState, me: Participant): SessionA
 
 /**
  * The action types this person may send now, for the buttons on their screen.
- * A person who has not joined may only join (their venue roles are checked when they do).
+ * A person who has not joined may only join (their venue roles are checked when they do; during a
+ * hold, only a rail operator when nobody leads).
  * `begin` is listed when it is allowed with a reason; `crewShortfall` says whether one is needed.
  * `confirm-step` is for the next step (nextStepFor gives its index).
  */
 export function allowedActions(state: SessionState, personId: number): ActionType[] {
   const me = participantOf(state, personId);
-  if (!me) return state.phase === 'finished' ? [] : ['join'];
+  if (!me) {
+    // During a hold only a rail operator may join, and only when nobody leads (to release it).
+    const canJoin = state.phase !== 'finished' && (!state.hold || state.leadPersonId === null);
+    return canJoin ? ['join'] : [];
+  }
   const actor = { personId, name: me.name, venueRoles: [me.role] };
   return ACTION_TYPES.filter((type) => decide(state, probe(type, state, me), actor, 0).ok);
 }

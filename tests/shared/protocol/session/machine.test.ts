@@ -185,6 +185,15 @@ describe('the move call and "clear"', () => {
     expect(s.refused(sam, { type: 'answer-clear' }).code).toBe('already-done');
   });
 
+  it('answers already-done to a "clear" that comes after the set is locked', () => {
+    const s = new Session().toInPosition();
+    s.do(lee, { type: 'join', role: 'loader' });
+    expect(s.refused(lee, { type: 'answer-clear' })).toMatchObject({
+      code: 'already-done',
+      reason: 'Line set 7 is already in position and locked.',
+    });
+  });
+
   it('answers already-done to a repeated call while the first is open', () => {
     const s = new Session().joinCrew();
     s.do(jo, { type: 'begin' });

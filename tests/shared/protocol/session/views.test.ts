@@ -104,6 +104,7 @@ describe('allowedActions and nextStepFor', () => {
     expect(allowedActions(s.state, robin.personId)).toEqual([]);
     expect(allowedActions(s.state, jo.personId)).toEqual(['ack-hold', 'release-hold']);
     expect(nextStepFor(s.state, sam.personId).text).toMatch(/Acknowledge it\.$/);
+    expect(allowedActions(s.state, 99)).toEqual([]);
   });
 
   it('offers the next step only to its role, and nothing at the rail, while the rail is clear', () => {
