@@ -1,5 +1,8 @@
 import type { AddPersonInput, AddPersonResult, Me, PersonRow, SignInInput } from '@shared/protocol/people';
 import type { Role } from '@shared/protocol/roles';
+import type { ScheduleView } from '@shared/protocol/schedule';
+import type { CreateSessionInput, PresenceEntry, SessionSummary } from '@shared/protocol/sessions-api';
+import type { ActionEnvelope, LogEntry, SessionState } from '@shared/protocol/session';
 import { ApiFailure, http } from './http';
 
 /**
@@ -28,25 +31,35 @@ export const addPerson = (input: AddPersonInput) => http.post<AddPersonResult>('
 export const setPersonRoles = (id: number, roles: Role[]) =>
   http.put<{ person: PersonRow }>(`/api/people/${id}/roles`, { roles });
 
-/**
- * What the home screens show of a running loading session.
- * TODO: import the summary type from shared/protocol/session when it lands; until then
- * only the fields every variant will have are read.
- */
-export interface ActiveSessionSummary {
-  id: number;
-  title?: string;
-  name?: string;
-  startedAt?: string;
-}
-
 /** Running loading sessions of the venue; a 404 (route not there yet) counts as none. */
-export async function listActiveSessions(): Promise<ActiveSessionSummary[]> {
+export async function listActiveSessions(): Promise<SessionSummary[]> {
   try {
-    const answer = await http.get<{ sessions?: ActiveSessionSummary[] }>('/api/sessions', { query: { active: 1 } });
+    const answer = await http.get<{ sessions?: SessionSummary[] }>('/api/sessions', { query: { active: 1 } });
     return answer?.sessions ?? [];
   } catch (error) {
     if (error instanceof ApiFailure && error.status === 404) return [];
     throw error;
   }
 }
+
+export const getSchedule = () => http.get<ScheduleView>('/api/schedule');
+
+export const createSession = (input: CreateSessionInput) =>
+  http.post<{ session: SessionSummary; state: SessionState }>('/api/sessions', input);
+
+export interface SessionSnapshot {
+  session: SessionSummary;
+  state: SessionState;
+  lastSeq: number;
+  presence: PresenceEntry[];
+}
+
+export const getSession = (id: number) => http.get<SessionSnapshot>(`/api/sessions/${id}`);
+
+/** Log entries after `afterSeq`, for catching up when the live connection cannot. */
+export const getSessionEvents = (id: number, afterSeq: number) =>
+  http.get<{ entries: LogEntry[]; lastSeq: number }>(`/api/sessions/${id}/events`, { query: { after: afterSeq } });
+
+/** The same handler as the socket's `session:act`; a refusal rejects with the server's reason. */
+export const postSessionAction = (id: number, envelope: ActionEnvelope) =>
+  http.post<{ ok: true; seq: number; state: SessionState }>(`/api/sessions/${id}/actions`, envelope);

@@ -1,10 +1,11 @@
 import { defineStore } from 'pinia';
 import { ref } from 'vue';
+import type { SessionSummary } from '@shared/protocol/sessions-api';
 import * as api from '@/services/api';
 
 /** The venue's running loading sessions, as the role home screens list them. */
 export const useActiveSessionsStore = defineStore('activeSessions', () => {
-  const sessions = ref<api.ActiveSessionSummary[]>([]);
+  const sessions = ref<SessionSummary[]>([]);
   const loading = ref(false);
   const loaded = ref(false);
 

@@ -1,0 +1,289 @@
+import { defineStore } from 'pinia';
+import { computed, ref } from 'vue';
+import { Notify } from 'quasar';
+import type { Socket } from 'socket.io-client';
+import type { ClientToServerEvents, ServerToClientEvents } from '@shared/protocol/events';
+import type { Ack } from '@shared/protocol/ack';
+import type { PresenceEntry, SessionSummary } from '@shared/protocol/sessions-api';
+import {
+  participantOf,
+  type ActionEnvelope,
+  type LogEntry,
+  type SessionAction,
+  type SessionAlert,
+  type SessionClientToServerEvents,
+  type SessionServerToClientEvents,
+  type SessionState,
+  type SessionWatchResult,
+} from '@shared/protocol/session';
+import * as api from '@/services/api';
+import { failureMessage } from '@/services/http';
+import { socket } from '@/services/socket';
+import { makeActionKey } from '@/utils/actionKey';
+import { useAuthStore } from './auth';
+
+/** The session events as this store uses them (a superset of the app's event maps while they grow). */
+type LiveSocket = Socket<
+  ServerToClientEvents &
+    SessionServerToClientEvents & { 'session:presence': (payload: { sessionId: number; presence: PresenceEntry[] }) => void },
+  ClientToServerEvents & SessionClientToServerEvents
+>;
+const live = socket as unknown as LiveSocket;
+
+/** How long a phone waits for the server's answer to one tap before trying again with the same key. */
+const ACK_TIMEOUT_MS = 8000;
+
+/** One tap on its way to the server. The key is made once, at the tap, and kept for every retry. */
+export interface PendingAction {
+  envelope: ActionEnvelope;
+  /** True while a send is waiting for its answer. */
+  inFlight: boolean;
+}
+
+export type ActResult = { ok: true; seq: number } | { ok: false; code: string; message: string };
+
+/** Merges log entries by sequence number: duplicates dropped, order kept. Pure, for tests too. */
+export function mergeEntries(have: readonly LogEntry[], incoming: readonly LogEntry[]): LogEntry[] {
+  const bySeq = new Map<number, LogEntry>();
+  for (const entry of have) bySeq.set(entry.seq, entry);
+  for (const entry of incoming) if (!bySeq.has(entry.seq)) bySeq.set(entry.seq, entry);
+  return [...bySeq.values()].sort((a, b) => a.seq - b.seq);
+}
+
+/** The last sequence number held without a gap from 1 (the number to catch up from). */
+export function contiguousSeq(entries: readonly LogEntry[]): number {
+  let seq = 0;
+  for (const entry of entries) {
+    if (entry.seq === seq + 1) seq = entry.seq;
+    else if (entry.seq > seq + 1) break;
+  }
+  return seq;
+}
+
+/**
+ * The live loading session open on this phone: its state, its log by sequence number, who is
+ * connected, and the outbox of taps not yet answered. Socket events are bound once, here; on every
+ * (re)connect the store watches again from the last sequence number it holds and retries the outbox.
+ */
+export const useLiveSessionStore = defineStore('liveSession', () => {
+  const auth = useAuthStore();
+
+  const sessionId = ref<number | null>(null);
+  const summary = ref<SessionSummary | null>(null);
+  const state = ref<SessionState | null>(null);
+  /** The sequence number `state` is the state after (a stale answer never replaces a newer state). */
+  const stateSeq = ref(0);
+  const entries = ref<LogEntry[]>([]);
+  const presence = ref<PresenceEntry[]>([]);
+  const loading = ref(false);
+  const loadError = ref<string | null>(null);
+  /** True once the server has this phone in the session's room. */
+  const watching = ref(false);
+  const outbox = ref<PendingAction[]>([]);
+  /** The last alert addressed to this person (a re-alert or a hold), with when it arrived. */
+  const alert = ref<(SessionAlert & { receivedAtMs: number }) | null>(null);
+  /** The last refusal, in the server's words (also shown as a notice). */
+  const lastRefusal = ref<string | null>(null);
+
+  const lastSeq = computed(() => contiguousSeq(entries.value));
+  const myId = computed(() => auth.me?.id ?? 0);
+  const me = computed(() => (state.value ? (participantOf(state.value, myId.value) ?? null) : null));
+
+  const settle = new Map<string, (result: ActResult) => void>();
+
+  function takeState(next: SessionState, seq: number): void {
+    if (seq >= stateSeq.value) {
+      state.value = next;
+      stateSeq.value = seq;
+    }
+  }
+
+  function take(incoming: readonly LogEntry[]): void {
+    if (incoming.length) entries.value = mergeEntries(entries.value, incoming);
+  }
+
+  function reset(): void {
+    sessionId.value = null;
+    summary.value = null;
+    state.value = null;
+    stateSeq.value = 0;
+    entries.value = [];
+    presence.value = [];
+    watching.value = false;
+    alert.value = null;
+    lastRefusal.value = null;
+    loadError.value = null;
+    for (const pending of outbox.value) settle.get(pending.envelope.key)?.({ ok: false, code: 'closed', message: 'The session was closed on this phone.' });
+    outbox.value = [];
+    settle.clear();
+  }
+
+  /** Fetches what the live connection missed, over plain HTTP (state, presence and every later entry). */
+  async function refresh(): Promise<void> {
+    const id = sessionId.value;
+    if (id === null) return;
+    const from = lastSeq.value;
+    const [snapshot, events] = await Promise.all([api.getSession(id), api.getSessionEvents(id, from)]);
+    if (sessionId.value !== id) return;
+    summary.value = snapshot.session;
+    presence.value = snapshot.presence;
+    take(events.entries);
+    takeState(snapshot.state, snapshot.lastSeq);
+  }
+
+  function watch(): void {
+    const id = sessionId.value;
+    if (id === null || !live.connected) return;
+    live.timeout(ACK_TIMEOUT_MS).emit('session:watch', { sessionId: id, afterSeq: lastSeq.value }, (error: Error | null, res: Ack<SessionWatchResult & { presence?: PresenceEntry[] }>) => {
+      if (sessionId.value !== id) return;
+      if (error || !res) {
+        // No answer in time: try again while still connected.
+        if (live.connected) setTimeout(watch, 1000);
+        return;
+      }
+      if (!res.ok) {
+        loadError.value = res.error.message;
+        return;
+      }
+      watching.value = true;
+      take(res.entries);
+      takeState(res.state, res.lastSeq);
+      if (res.presence) presence.value = res.presence;
+      // A gap (entries the answer did not carry) is filled over HTTP.
+      if (lastSeq.value < res.lastSeq) void refresh().catch(() => undefined);
+      flush();
+    });
+  }
+
+  /** Opens a session on this phone: one snapshot over HTTP, then the live room. */
+  async function open(id: number): Promise<void> {
+    if (sessionId.value !== id) {
+      if (sessionId.value !== null) close();
+      sessionId.value = id;
+    }
+    loading.value = true;
+    loadError.value = null;
+    try {
+      const snapshot = await api.getSession(id);
+      if (sessionId.value !== id) return;
+      summary.value = snapshot.session;
+      presence.value = snapshot.presence;
+      const events = await api.getSessionEvents(id, lastSeq.value);
+      take(events.entries);
+      takeState(snapshot.state, Math.max(snapshot.lastSeq, 0));
+      watch();
+    } catch (error) {
+      loadError.value = failureMessage(error);
+      throw error;
+    } finally {
+      loading.value = false;
+    }
+  }
+
+  function close(): void {
+    if (sessionId.value !== null && live.connected) live.emit('session:unwatch', { sessionId: sessionId.value });
+    reset();
+  }
+
+  function refused(message: string): void {
+    lastRefusal.value = message;
+    Notify.create({ type: 'negative', message, timeout: 7000, actions: [{ label: 'Dismiss', flat: true }] });
+  }
+
+  function send(pending: PendingAction): void {
+    const id = sessionId.value;
+    if (id === null || pending.inFlight || !live.connected) return;
+    pending.inFlight = true;
+    live.timeout(ACK_TIMEOUT_MS).emit('session:act', { sessionId: id, envelope: pending.envelope }, (error: Error | null, res: Ack<{ seq: number; state: SessionState }>) => {
+      pending.inFlight = false;
+      if (error || !res) {
+        // No answer: keep it queued; the same key goes again (now, or after the reconnect).
+        if (live.connected) setTimeout(() => send(pending), 1000);
+        return;
+      }
+      outbox.value = outbox.value.filter((p) => p !== pending);
+      const done = settle.get(pending.envelope.key);
+      settle.delete(pending.envelope.key);
+      if (res.ok) {
+        takeState(res.state, res.seq);
+        done?.({ ok: true, seq: res.seq });
+        return;
+      }
+      refused(res.error.message);
+      done?.({ ok: false, code: res.error.code, message: res.error.message });
+      // A refusal often means this screen was behind: bring it up to date.
+      void refresh().catch(() => undefined);
+    });
+  }
+
+  function flush(): void {
+    for (const pending of outbox.value) send(pending);
+  }
+
+  /**
+   * Proposes one action; the server decides. Resolves when the server has answered (after any
+   * reconnect), with a refusal's reason in plain words. The tap is queued while the phone is offline.
+   */
+  function act(action: SessionAction): Promise<ActResult> {
+    const envelope: ActionEnvelope = { key: makeActionKey(), clientTimeMs: Date.now(), action };
+    const pending: PendingAction = { envelope, inFlight: false };
+    outbox.value = [...outbox.value, pending];
+    const result = new Promise<ActResult>((resolve) => settle.set(envelope.key, resolve));
+    // Send the reactive copy, so `inFlight` shows on screen.
+    send(outbox.value[outbox.value.length - 1]);
+    return result;
+  }
+
+  function dismissAlert(): void {
+    alert.value = null;
+  }
+
+  live.on('connect', () => {
+    watching.value = false;
+    watch();
+  });
+  live.on('disconnect', () => {
+    watching.value = false;
+    for (const pending of outbox.value) pending.inFlight = false;
+  });
+  live.on('session:entries', (payload) => {
+    if (payload.sessionId !== sessionId.value) return;
+    take(payload.entries);
+    const top = payload.entries.reduce((max, e) => Math.max(max, e.seq), 0);
+    if (lastSeq.value >= top) takeState(payload.state, top);
+    // Something was missed between the last entry held and these: fetch it.
+    else void refresh().catch(() => undefined);
+  });
+  live.on('session:presence', (payload) => {
+    if (payload.sessionId === sessionId.value) presence.value = payload.presence;
+  });
+  live.on('session:alert', (payload) => {
+    if (payload.sessionId !== sessionId.value) return;
+    if (payload.kind === 'hold' || payload.people.some((p) => p.personId === myId.value)) {
+      alert.value = { ...payload, receivedAtMs: Date.now() };
+    }
+  });
+
+  return {
+    sessionId,
+    summary,
+    state,
+    stateSeq,
+    entries,
+    presence,
+    loading,
+    loadError,
+    watching,
+    outbox,
+    alert,
+    lastRefusal,
+    lastSeq,
+    myId,
+    me,
+    open,
+    close,
+    refresh,
+    act,
+    dismissAlert,
+  };
+});

@@ -1,0 +1,86 @@
+/**
+ * Words the session screens show that depend on the venue's units ("pull 2 bricks, 20 lb each").
+ * The sentences that do not (what must happen next, log lines) come from shared/protocol/session.
+ */
+import { formatMass, type BrickCounts, type BrickType, type PlanStep, type Units } from '@shared/rigging';
+
+/** Below this the set reads as balanced (the same threshold as the session's own words). */
+export const BALANCED_WITHIN_KG = 0.05;
+
+export type HeavySide = 'pipe' | 'arbor' | 'balanced';
+
+export function heavySide(imbalanceKg: number): HeavySide {
+  if (Math.abs(imbalanceKg) < BALANCED_WITHIN_KG) return 'balanced';
+  return imbalanceKg > 0 ? 'pipe' : 'arbor';
+}
+
+/** "Pipe-heavy by 40 lb", "Arbor-heavy by 2.3 kg" or "Balanced". */
+export function balanceWords(imbalanceKg: number, units: Units): string {
+  const side = heavySide(imbalanceKg);
+  if (side === 'balanced') return 'Balanced';
+  return `${side === 'pipe' ? 'Pipe' : 'Arbor'}-heavy by ${formatMass(Math.abs(imbalanceKg), units)}`;
+}
+
+function countsOf(bricks: BrickCounts | undefined): Array<[string, number]> {
+  return Object.entries(bricks ?? {}).filter(([, n]) => n > 0);
+}
+
+/** "2 bricks, 20 lb each" with one brick type in play; "2 full (20 lb each) and 1 half (10 lb each)" with several. */
+export function bricksWords(bricks: BrickCounts | undefined, brickTypes: BrickType[], units: Units): string {
+  const entries = countsOf(bricks);
+  const massOf = (type: string) => brickTypes.find((b) => b.type === type)?.massKg ?? 0;
+  if (entries.length === 1) {
+    const [type, n] = entries[0];
+    const kind = brickTypes.length > 1 ? `${type} ` : '';
+    return `${n} ${kind}${n === 1 ? 'brick' : 'bricks'}, ${formatMass(massOf(type), units)} each`;
+  }
+  const parts = entries.map(([type, n]) => `${n} ${type} (${formatMass(massOf(type), units)} each)`);
+  return parts.length ? `${parts.slice(0, -1).join(', ')}${parts.length > 1 ? ' and ' : ''}${parts.at(-1)} bricks` : 'no bricks';
+}
+
+/** The big line on a loader's screen: "Pull 2 bricks, 20 lb each". */
+export function brickStepWords(step: PlanStep, brickTypes: BrickType[], units: Units): string {
+  const verb = step.kind === 'add-bricks' ? 'Load' : 'Pull';
+  return `${verb} ${bricksWords(step.bricks, brickTypes, units)}`;
+}
+
+/** "14 bricks" or "14 bricks: 12 full, 2 half". */
+export function arborCountWords(bricks: BrickCounts, brickTypes: BrickType[]): string {
+  const entries = countsOf(bricks);
+  const total = entries.reduce((sum, [, n]) => sum + n, 0);
+  const head = `${total} ${total === 1 ? 'brick' : 'bricks'}`;
+  if (brickTypes.length <= 1 || entries.length === 0) return head;
+  return `${head}: ${entries.map(([type, n]) => `${n} ${type}`).join(', ')}`;
+}
+
+/** "14:03:27", the time of day to the second, as the log shows it. */
+export function clockTime(ms: number): string {
+  return new Date(ms).toLocaleTimeString([], { hour: '2-digit', minute: '2-digit', second: '2-digit', hour12: false });
+}
+
+/** A plan step in the venue's units, for plan lists and the big step line. */
+export function stepWords(step: PlanStep, brickTypes: BrickType[], units: Units, pieceNames: Record<string, string> = {}): string {
+  const piece = step.pieceId ? (pieceNames[step.pieceId] ?? step.pieceId) : null;
+  switch (step.kind) {
+    case 'remove-bricks':
+    case 'add-bricks':
+      return `${brickStepWords(step, brickTypes, units)}${piece ? ` for ${piece}` : ''}`;
+    case 'remove-piece':
+      return `Take ${piece ?? 'the piece'} off the batten`;
+    case 'add-piece':
+      return `Hang ${piece ?? 'the piece'} on the batten${step.massKg ? ` (${formatMass(step.massKg, units)})` : ''}`;
+    case 'tie-off':
+      return 'Tie off the set at the rail';
+    case 'untie':
+      return 'Untie the set at the rail';
+    case 'test-balance':
+      return 'Test the balance at the rail';
+  }
+}
+
+/** Who does a step, in words for the plan list. */
+export function stepWho(step: PlanStep): string {
+  if (step.kind === 'remove-bricks' || step.kind === 'add-bricks') return 'Loaders';
+  if (step.kind === 'remove-piece' || step.kind === 'add-piece') return 'Deck';
+  return 'Rail';
+}
