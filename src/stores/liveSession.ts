@@ -1,5 +1,5 @@
 import { defineStore } from 'pinia';
-import { computed, ref } from 'vue';
+import { computed, ref, shallowRef } from 'vue';
 import { Notify } from 'quasar';
 import type { Socket } from 'socket.io-client';
 import type { ClientToServerEvents, ServerToClientEvents } from '@shared/protocol/events';
@@ -70,11 +70,13 @@ export const useLiveSessionStore = defineStore('liveSession', () => {
 
   const sessionId = ref<number | null>(null);
   const summary = ref<SessionSummary | null>(null);
-  const state = ref<SessionState | null>(null);
+  // Shallow: a state is replaced whole, never changed in place, and the shared rules
+  // structuredClone it (which a deep reactive proxy cannot pass).
+  const state = shallowRef<SessionState | null>(null);
   /** The sequence number `state` is the state after (a stale answer never replaces a newer state). */
   const stateSeq = ref(0);
-  const entries = ref<LogEntry[]>([]);
-  const presence = ref<PresenceEntry[]>([]);
+  const entries = shallowRef<LogEntry[]>([]);
+  const presence = shallowRef<PresenceEntry[]>([]);
   const loading = ref(false);
   const loadError = ref<string | null>(null);
   /** True once the server has this phone in the session's room. */
