@@ -15,6 +15,7 @@ for (const [i, lane] of LANES.entries()) {
   const db = createDataSource(config.db);
   await db.initialize();
   const railcall = createApp({ config, db, logger: createLogger('warn') });
+  await railcall.start();
   await new Promise<void>((resolve) => railcall.httpServer.listen(E2E_BASE_PORT + i, '127.0.0.1', resolve));
   console.log(`[e2e] lane ${lane} on http://127.0.0.1:${E2E_BASE_PORT + i}`);
   stops.push(async () => {
