@@ -81,7 +81,7 @@ try {
     const early = new Map<number, number>();
     for (const who of CREW) {
       const socket = connect(url, { transports: ['websocket'], forceNew: true, extraHeaders: { Cookie: cookies[who] } });
-      await new Promise((r) => socket.once('connect', r));
+      await new Promise<void>((r) => socket.once('connect', () => r()));
       socket.on('session:entries', ({ entries }: { entries: Array<{ seq: number }> }) => {
         for (const e of entries) {
           const w = waiting.get(e.seq);

@@ -37,7 +37,7 @@ export function useSessionView(state: Ref<SessionState>, personId: Ref<number>) 
   const next = computed(() => nextStepFor(state.value, personId.value));
   const waiting = computed(() => waitingOn(state.value));
   const nextWorkIndex = computed(() => nextWorkStepIndex(lineSet.value));
-  /** The sentence for this person's screen; a wait names who the session waits on, as they are written. */
-  const nextText = computed(() => (next.value.text.startsWith('Wait: ') ? `Wait: ${waiting.value.text}` : next.value.text));
+  /** The sentence for this person's screen. */
+  const nextText = computed(() => next.value.text);
   return { me, isLead, lineSet, label, allowed, can, next, nextText, waiting, nextWorkIndex };
 }

@@ -1,8 +1,6 @@
 import { defineStore } from 'pinia';
 import { computed, ref, shallowRef } from 'vue';
 import { Notify } from 'quasar';
-import type { Socket } from 'socket.io-client';
-import type { ClientToServerEvents, ServerToClientEvents } from '@shared/protocol/events';
 import type { Ack } from '@shared/protocol/ack';
 import type { PresenceEntry, SessionSummary } from '@shared/protocol/sessions-api';
 import {
@@ -11,8 +9,6 @@ import {
   type LogEntry,
   type SessionAction,
   type SessionAlert,
-  type SessionClientToServerEvents,
-  type SessionServerToClientEvents,
   type SessionState,
   type SessionWatchResult,
 } from '@shared/protocol/session';
@@ -23,12 +19,8 @@ import { makeActionKey } from '@/utils/actionKey';
 import { useAuthStore } from './auth';
 
 /** The session events as this store uses them (a superset of the app's event maps while they grow). */
-type LiveSocket = Socket<
-  ServerToClientEvents &
-    SessionServerToClientEvents & { 'session:presence': (payload: { sessionId: number; presence: PresenceEntry[] }) => void },
-  ClientToServerEvents & SessionClientToServerEvents
->;
-const live = socket as unknown as LiveSocket;
+// The shared event maps type the socket for sessions too (shared/protocol/events.ts).
+const live = socket;
 
 /** How long a phone waits for the server's answer to one tap before trying again with the same key. */
 const ACK_TIMEOUT_MS = 8000;
@@ -136,7 +128,7 @@ export const useLiveSessionStore = defineStore('liveSession', () => {
   function watch(): void {
     const id = sessionId.value;
     if (id === null || !live.connected) return;
-    live.timeout(ACK_TIMEOUT_MS).emit('session:watch', { sessionId: id, afterSeq: lastSeq.value }, (error: Error | null, res: Ack<SessionWatchResult & { presence?: PresenceEntry[] }>) => {
+    live.timeout(ACK_TIMEOUT_MS).emit('session:watch', { sessionId: id, afterSeq: lastSeq.value }, (error: Error | null, res: Ack<SessionWatchResult>) => {
       if (sessionId.value !== id) return;
       if (error || !res) {
         // No answer in time: try again while still connected.

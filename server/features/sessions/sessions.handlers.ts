@@ -1,4 +1,4 @@
-import { describeEntry, sessionActPayloadSchema, sessionWatchPayloadSchema, type LogEntry, type SessionState } from '@shared/protocol/session';
+import { describeEntry, sessionActPayloadSchema, sessionWatchPayloadSchema, type LogEntry, type SessionState, type SessionWatchResult } from '@shared/protocol/session';
 import type { Ack, ApiError } from '@shared/protocol/ack';
 import { HttpError } from '../../middleware/http-error';
 import { personRoom, type RailcallServer, type SocketFeature } from '../../realtime/io';
@@ -30,7 +30,7 @@ export function sessionSocketFeature(sessions: SessionsService, presence: Presen
     };
 
     socket.on('session:watch', async (payload, rawAck) => {
-      const ack = safeAck<{ state: SessionState; lastSeq: number; entries: LogEntry[] }>(rawAck);
+      const ack = safeAck<SessionWatchResult>(rawAck);
       try {
         const parsed = sessionWatchPayloadSchema.safeParse(payload);
         if (!parsed.success) throw new HttpError('bad-input', 'session:watch needs { sessionId, afterSeq? }.');
@@ -39,7 +39,7 @@ export function sessionSocketFeature(sessions: SessionsService, presence: Presen
         await socket.join(sessionRoom(sessionId));
         const { entries, lastSeq } = await sessions.events(user(), sessionId, afterSeq ?? 0);
         const arrived = presence.connect(sessionId, user().id, user().name, socket.id);
-        ack({ ok: true, state, lastSeq, entries });
+        ack({ ok: true, state, lastSeq, entries, presence: presence.list(sessionId, state) });
         if (arrived) await announcePresence(sessionId);
       } catch (error) {
         ack({ ok: false, error: toApiError(error, logger) });

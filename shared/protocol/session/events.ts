@@ -7,6 +7,7 @@ import type { SessionRole } from '../roles';
 import type { Decision } from './machine';
 import type { ActionEnvelope, SessionWatchPayload } from './schema';
 import type { SessionState } from './state';
+import type { PresenceEntry } from '../sessions-api';
 
 /** One row of a session's log, as the server stores and sends it. */
 export interface LogEntry {
@@ -47,6 +48,8 @@ export interface SessionWatchResult {
   lastSeq: number;
   /** Entries after the `afterSeq` the phone gave (all of them when it gave none). */
   entries: LogEntry[];
+  /** Who has the session open now, and who is joined. */
+  presence: PresenceEntry[];
 }
 
 export interface SessionClientToServerEvents {

@@ -157,7 +157,7 @@ export function nextStepFor(state: SessionState, personId: number): NextStep {
       if (me.role === 'rail' && ls?.stage === 'rail-clear') {
         return say('Stay at least 10 ft back from the rail and keep watch until the loaders call "loading complete".');
       }
-      return say(`Wait: ${waitingOn(state).text.replace(/^[A-Z]/, (c) => c.toLowerCase())}`);
+      return say(`Wait. ${waitingOn(state).text}`);
     }
   }
 }
@@ -265,6 +265,8 @@ export function describeEntry(entry: DescribableEntry, state?: SessionState): st
       const people = Array.isArray(d.people) ? d.people.map((p: { name: string }) => p.name) : [];
       return `Railcall re-alerted ${nameList(people)}: no "clear" yet for ${label}.`;
     }
+    case 'session-opened':
+      return `${who} opened the session "${d.title}" for ${nameList((d.lineSets ?? []).map((l: { name: string }) => l.name))}.`;
     case 'refused':
       return `${who} was refused "${String(d.action?.type ?? 'an action').replace(/-/g, ' ')}": ${d.reason}`;
     default:
