@@ -7,7 +7,7 @@ import RailActionPanel from '@/components/session/RailActionPanel.vue';
 import LoaderActionPanel from '@/components/session/LoaderActionPanel.vue';
 import DeckActionPanel from '@/components/session/DeckActionPanel.vue';
 import WatchActionPanel from '@/components/session/WatchActionPanel.vue';
-import { alex, begun, calledDeckSilent, jo, kit, newSession, play, railClear, robin, sam } from './support/session';
+import { alex, begun, calledDeckSilent, jo, kit, LB, newSession, play, railClear, robin, sam } from './support/session';
 
 let wrapper: VueWrapper | null = null;
 afterEach(() => {
@@ -23,6 +23,40 @@ const button = (w: VueWrapper, testId: string) => w.find(`[data-testid="${testId
 const buttonLabels = (w: VueWrapper) => w.findAll('button').map((b) => b.text());
 
 describe('RailActionPanel', () => {
+  it('records an out-of-balance test with the estimate in the venue units and a note, and offers the corrected re-test', async () => {
+    const done = play(railClear(),
+      [sam, { type: 'confirm-step', stepIndex: 0 }], [robin, { type: 'confirm-step', stepIndex: 1 }],
+      [alex, { type: 'confirm-step', stepIndex: 2 }], [robin, { type: 'confirm-step', stepIndex: 3 }],
+      [sam, { type: 'call-loading-complete' }]);
+    const w = panel(RailActionPanel, done, jo.personId);
+    const inputs = w.get('[data-testid="record-test"]').findAll('input, textarea');
+    await inputs[0].setValue('5');
+    await inputs[1].setValue('Drifts in slowly');
+    const pipeHeavy = w.findAll('button').find((b) => b.text() === 'Pipe-heavy')!;
+    await pipeHeavy.trigger('click');
+    const [[action]] = w.emitted('act') as [[{ type: string; result: string; estimateKg: number; note: string }]];
+    expect(action).toMatchObject({ type: 'record-test', result: 'pipe-heavy', note: 'Drifts in slowly' });
+    // 5 lb at the exact definition 1 lb = 0.45359237 kg (NIST SP 811).
+    expect(action.estimateKg).toBeCloseTo(5 * LB, 9);
+
+    await w.setProps({ state: play(done, [jo, action as never]) });
+    const retest = w.get('[data-testid="retest"]').find('button');
+    expect(retest.text()).toContain('tests balanced now');
+    await retest.trigger('click');
+    expect((w.emitted('act') as unknown[][]).at(-1)).toEqual([{ type: 'record-test', result: 'balanced', lineSetId: done.lineSets[0].id }]);
+  });
+
+  it('ends the session early only with a reason', async () => {
+    const w = panel(RailActionPanel, begun(), jo.personId);
+    await w.get('[data-testid="end-session"]').find('button').trigger('click');
+    const end = () => w.findAll('button').find((b) => b.text() === 'End the session')!;
+    expect(end().attributes('disabled')).toBeDefined();
+    await w.get('[data-testid="end-session"]').find('textarea').setValue('Fire alarm test in the house');
+    await end().trigger('click');
+    expect(w.emitted('act')).toEqual([[{ type: 'end', reason: 'Fire alarm test in the house' }]]);
+  });
+
+
   it('before the crew has joined offers no begin to a rail operator who has not joined', () => {
     const w = panel(RailActionPanel, newSession(), jo.personId);
     expect(buttonLabels(w)).toEqual([]);

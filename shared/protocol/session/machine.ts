@@ -506,6 +506,16 @@ export const RULES: RuleTable = {
     who: 'lead',
     atRail: false,
     apply({ state, action, nowMs }) {
+      // Not while loaders handle steel: the log would stop with a set half loaded. Hold first, finish, then end.
+      const working = activeLineSet(state);
+      if (working && (working.stage === 'rail-clear-called' || working.stage === 'rail-clear')) {
+        return {
+          ok: false,
+          code: 'refused',
+          reason: `The loaders are working on ${lineSetLabel(working.name)}: they call "loading complete" first (call a hold to stop them now).`,
+          lineSetId: working.id,
+        };
+      }
       state.phase = 'finished';
       state.endedAtMs = nowMs;
       state.endedHow = 'ended';

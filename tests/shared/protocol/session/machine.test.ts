@@ -420,6 +420,11 @@ describe('ending and re-alerts', () => {
     expect(s.refused(jo, { type: 'note', text: 'after' }).reason).toBe('The session has finished.');
   });
 
+  it('refuses ending while the loaders handle steel: they finish (or a hold stops them) first', () => {
+    const s = new Session().toRailClear();
+    expect(s.refused(jo, { type: 'end', reason: 'Out of time' }).reason).toMatch(/loading complete/);
+  });
+
   it('accepts re-alert only from Railcall itself, for people still silent', () => {
     const s = new Session().joinCrew();
     s.do(jo, { type: 'begin' });

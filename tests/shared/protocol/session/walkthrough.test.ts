@@ -50,7 +50,7 @@ describe('a two-drape unload, walked through', () => {
 
     const balance: number[] = [];
     expect(nextStepFor(s.state, alex.personId)).toMatchObject({ text: 'Pull 2 bricks for Drape A, then confirm.', stepIndex: 0 });
-    expect(nextStepFor(s.state, robin.personId).text).toBe('Wait: the loaders must pull 2 bricks for Drape A.');
+    expect(nextStepFor(s.state, robin.personId).text).toBe('Wait. The loaders must pull 2 bricks for Drape A.');
     act(alex, { type: 'confirm-step', stepIndex: 0 });
     balance.push(s.state.lineSets[0].imbalanceKg);
     expect(nextStepFor(s.state, robin.personId)).toMatchObject({ text: 'Take Drape A off the batten, then confirm.', stepIndex: 1 });
