@@ -82,7 +82,7 @@ export function sessionSocketFeature(sessions: SessionsService, presence: Presen
 export function broadcastCommitted(io: RailcallServer, c: { sessionId: number; entries: LogEntry[]; state: SessionState }): void {
   io.to(sessionRoom(c.sessionId)).emit('session:entries', { sessionId: c.sessionId, entries: c.entries, state: c.state });
   for (const entry of c.entries) {
-    const text = describeEntry({ ...entry, lineSetId: entry.lineSetId ?? undefined, stepIndex: entry.stepIndex ?? undefined }, c.state);
+    const text = describeEntry(entry, c.state);
     if (entry.kind === 're-alerted') {
       const people = (entry.details.people as Array<{ personId: number; name: string }>) ?? [];
       const alert = { sessionId: c.sessionId, kind: 're-alert' as const, lineSetId: entry.lineSetId, people, text, seq: entry.seq };

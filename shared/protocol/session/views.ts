@@ -2,6 +2,7 @@
  * Read-only views of a session for the role screens, the log table and the server's re-alert timer.
  * `allowedActions` asks `decide` itself, so a phone never offers a button the server would refuse.
  */
+import { formatMass, type Units } from '../../rigging';
 import { ROLE_LABELS, type SessionRole } from '../roles';
 import { decide, type LogDraft } from './machine';
 import { ACTION_TYPES, type ActionType, type SessionAction } from './schema';
@@ -203,13 +204,17 @@ export function nextReAlertAtMs(state: SessionState): number | null {
 }
 
 /** A log entry as the table shows it: the draft plus the person's name (LogEntry has both). */
-export type DescribableEntry = LogDraft & { personName?: string };
+export type DescribableEntry = Omit<LogDraft, 'lineSetId' | 'stepIndex'> & {
+  lineSetId?: string | null;
+  stepIndex?: number | null;
+  personName?: string;
+};
 
 /**
  * One plain sentence for a log entry ("Jo Castellan called line set 7 in to the loading position.").
  * Line set names come from the entry's details, else from `state`, else the id.
  */
-export function describeEntry(entry: DescribableEntry, state?: SessionState): string {
+export function describeEntry(entry: DescribableEntry, state?: SessionState, units?: Units): string {
   const who = entry.personName ?? (entry.role === 'system' ? 'Railcall' : 'Someone');
   const d = entry.details as Record<string, any>;
   const lsName: string | undefined =
@@ -238,13 +243,13 @@ export function describeEntry(entry: DescribableEntry, state?: SessionState): st
     case 'rail-clear-confirmed':
       return `${who} confirmed the rail is clear for ${label} (stepped back at least 10 ft, keeping watch).`;
     case 'step-confirmed':
-      return `${who} ${d.text ?? `confirmed step ${(entry.stepIndex ?? 0) + 1}`} on ${label}: now ${balanceText(Number(d.imbalanceKg))}.`;
+      return `${who} ${d.text ?? `confirmed step ${(entry.stepIndex ?? 0) + 1}`} on ${label}: now ${balanceText(Number(d.imbalanceKg), units)}.`;
     case 'loading-complete':
       return `${who} called "loading complete" on ${label}.`;
     case 'untied':
       return `${who} untied ${label}.`;
     case 'test-recorded': {
-      const result = d.result === 'balanced' ? 'balanced' : `${d.result} by about ${d.estimateKg} kg`;
+      const result = d.result === 'balanced' ? 'balanced' : `${d.result} by about ${units ? formatMass(Number(d.estimateKg), units) : `${d.estimateKg} kg`}`;
       const note = d.note ? ` ("${d.note}")` : '';
       const flag = d.flagCleared ? ' The flag is cleared.' : d.flagged ? ' It stays flagged until corrected.' : '';
       return `${who} tested ${label}: ${result}${note}.${flag}`;

@@ -3,7 +3,7 @@
  * Refusals and the role screens use the same sentences, so the reason a phone shows on a refusal
  * is the same instruction the right person already sees on their own screen.
  */
-import type { BrickCounts, PlanStep } from '../../rigging';
+import { formatMass, type BrickCounts, type PlanStep, type Units } from '../../rigging';
 import { ROLE_LABELS, type SessionRole } from '../roles';
 import {
   activeLineSet,
@@ -39,10 +39,11 @@ export function bricksText(bricks: BrickCounts | undefined, brickTypeCount: numb
   return `${nameList(entries.map(([type, n]) => `${n} ${type}`))} ${noun}`;
 }
 
-/** "9.0 kg pipe-heavy", "2.5 kg arbor-heavy", or "balanced". */
-export function balanceText(imbalanceKg: number): string {
+/** "9.0 kg pipe-heavy", "20 lb arbor-heavy" (in the venue's units), or "balanced". */
+export function balanceText(imbalanceKg: number, units?: Units): string {
   if (Math.abs(imbalanceKg) < 0.05) return 'balanced';
-  return `${Math.abs(imbalanceKg).toFixed(1)} kg ${imbalanceKg > 0 ? 'pipe-heavy' : 'arbor-heavy'}`;
+  const amount = units ? formatMass(Math.abs(imbalanceKg), units) : `${Math.abs(imbalanceKg).toFixed(1)} kg`;
+  return `${amount} ${imbalanceKg > 0 ? 'pipe-heavy' : 'arbor-heavy'}`;
 }
 
 function pieceName(ls: LineSetState, pieceId: string | undefined): string {

@@ -158,3 +158,14 @@ describe('events helpers', () => {
     expect(entryHashText(base)).toContain('"hash":"kept"');
   });
 });
+
+describe('describeEntry in the venue units', () => {
+  it('states balances and estimates in pounds at an imperial venue, kilograms at a metric one', () => {
+    // 20 lb = 9.0718474 kg by the exact definition 1 lb = 0.45359237 kg (NIST SP 811).
+    const step = { kind: 'step-confirmed', personName: 'Sam Brightwater', lineSetId: 'ls7', stepIndex: 0, role: 'loader' as const, details: { imbalanceKg: 9.0718474, text: 'pulled 2 bricks' } };
+    expect(describeEntry(step, undefined, 'imperial')).toContain('now 20 lb pipe-heavy');
+    expect(describeEntry(step, undefined, 'metric')).toContain('now 9.1 kg pipe-heavy');
+    const test = { kind: 'test-recorded', personName: 'Jo Castellan', lineSetId: 'ls7', role: 'rail' as const, details: { result: 'arbor-heavy', estimateKg: 4.5359237 } };
+    expect(describeEntry(test, undefined, 'imperial')).toContain('arbor-heavy by about 10 lb');
+  });
+});
