@@ -1,5 +1,5 @@
 import { z } from 'zod';
-import { planChange, type BrickCounts, type PlanInput, type PlanResult } from '../rigging';
+import { checkLineSet, planChange, type BrickCounts, type LineSetLoad, type PlanInput, type PlanResult, type PlanWarning } from '../rigging';
 import type { SessionState } from './session/state';
 import type { ScheduleView } from './schedule';
 
@@ -55,7 +55,14 @@ export interface PlannedLineSet {
   /** line_set.id in the schedule. */
   scheduleId: number;
   input: PlanInput;
+  /** The line set before the first step. */
+  start: LineSetLoad;
   result: PlanResult;
+  /** Batten, lift line, arbor and span checks on the load after the change. */
+  checks: PlanWarning[];
+  /** The plan's warnings, then the checks; any `error` means the session must not start. */
+  warnings: PlanWarning[];
+  hasErrors: boolean;
   /** The session's name for the line set ("Line set 7 (Sea-mist drapes)"). */
   name: string;
   pieceNames: Record<string, string>;
@@ -85,18 +92,48 @@ export function planSession(schedule: Pick<ScheduleView, 'venue' | 'lineSets' | 
       add: newPieces.map((p) => ({ id: p.key, massKg: p.massKg })),
       ropeLockLimitKg: schedule.venue.settings.ropeLockLimitKg,
       arborCapacityKg: ls.arborCapacityKg,
+      units: schedule.venue.units,
     };
     const result = planChange(input);
     bridgeStock = result.final.bridgeStock;
+    // The batten after the change, for the capacity and lift line checks.
+    const hung = [
+      ...ls.pieces.filter((p) => !asked.remove.includes(p.id)).map((p) => ({ massKg: p.massKg, positionM: p.positionM })),
+      ...newPieces.map((p) => ({ massKg: p.massKg, positionM: p.positionM })),
+    ];
+    const checks = result.steps.length
+      ? checkLineSet({
+          lengthM: ls.pipeLengthM,
+          liftLines: ls.liftLinesM.map((atM) => ({ atM, ratedKg: ls.liftLineRatingKg })),
+          pipeKgPerM: ls.pipeKg / ls.pipeLengthM,
+          pointLoads: hung.filter((p) => p.positionM !== null).map((p) => ({ atM: p.positionM!, massKg: p.massKg })),
+          spreadLoads: hung.filter((p) => p.positionM === null).map((p) => ({ fromM: 0, toM: ls.pipeLengthM, massKg: p.massKg })),
+          battenRatedKgPerM: ls.battenRatingKgPerM,
+          purchase: ls.purchase,
+          arborKg: ls.arborKg,
+          bricks: result.final.bricks,
+          brickTypes,
+          arborCapacityKg: ls.arborCapacityKg,
+          maxSpanM: schedule.venue.settings.maxSpanM,
+          spreaderSpacingM: schedule.venue.settings.spreaderPlateEveryM,
+          units: schedule.venue.units,
+        })
+      : [];
+    const flagged: PlanWarning[] = ls.outOfBalance
+      ? [{ severity: 'warning', code: 'flagged-out-of-balance', message: 'Its last test of balance found it out of balance: the weights on the schedule may not match the set. Check it at the rail before anyone loads.' }]
+      : [];
+    const warnings = [...flagged, ...result.warnings, ...checks];
+    const start = { purchase: input.purchase, pipeKg: input.pipeKg, arborKg: input.arborKg, pieces: input.pieces, bricks: input.bricks };
     const pieceNames = Object.fromEntries([
       ...ls.pieces.map((p) => [pieceKey(p.id), p.name] as const),
       ...newPieces.map((p) => [p.key, p.name] as const),
     ]);
-    return { scheduleId: ls.id, input, result, name: `Line set ${ls.number} (${ls.name})`, pieceNames, newPieces };
+    const hasErrors = warnings.some((w) => w.severity === 'error');
+    return { scheduleId: ls.id, input, start, result, checks, warnings, hasErrors, name: `Line set ${ls.number} (${ls.name})`, pieceNames, newPieces };
   });
 }
 
 /** Every error of a session plan, each naming its line set. Empty when the plan can run. */
 export function sessionPlanErrors(planned: PlannedLineSet[]): string[] {
-  return planned.flatMap((p) => p.result.warnings.filter((w) => w.severity === 'error').map((w) => `${p.name}: ${w.message}`));
+  return planned.flatMap((p) => p.warnings.filter((w) => w.severity === 'error').map((w) => `${p.name}: ${w.message}`));
 }

@@ -84,7 +84,7 @@ export class SessionsService {
         phase: state.phase,
         state,
         plan: {
-          lineSets: planned.map((p) => ({ scheduleId: p.scheduleId, key: lineSetKey(p.scheduleId), newPieces: p.newPieces, warnings: p.result.warnings })),
+          lineSets: planned.map((p) => ({ scheduleId: p.scheduleId, key: lineSetKey(p.scheduleId), newPieces: p.newPieces, warnings: p.warnings })),
         },
         createdBy: user.id,
         createdAtMs: nowMs,

@@ -1,0 +1,54 @@
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { startTestApp, type TestApp } from '../../support/app';
+import { signedIn, type Agent } from '../../support/people';
+
+const LB = 0.45359237;
+
+describe('opening a session from the schedule', () => {
+  let t: TestApp;
+  let rail: Agent;
+  let ids: Record<number, { id: number; pieces: { id: number }[] }>;
+  const count = async () => Number((await t.database.owner.query('SELECT COUNT(*) AS n FROM loading_session'))[0].n);
+
+  beforeAll(async () => {
+    t = await startTestApp();
+    rail = await signedIn(t.url, 'rail@larkspur.example');
+    const { body } = await rail.get('/api/schedule');
+    ids = Object.fromEntries(body.lineSets.map((l: { number: number; id: number; pieces: { id: number }[] }) => [l.number, l]));
+  });
+  afterAll(async () => { await t.close(); });
+
+  it('refuses a piece the batten or its lift lines cannot carry, on the server as in the preview', async () => {
+    const before = await count();
+    const res = await rail.post('/api/sessions').send({
+      title: 'Too heavy',
+      lineSets: [{ lineSetId: ids[15].id, remove: [], add: [{ name: 'Steel truss', massKg: 600 * LB, positionM: 20 * 0.3048 }] }],
+    });
+    expect(res.status).toBe(400);
+    expect(res.body.error.message).toMatch(/Line set 15 \(Spare pipe\)/);
+    expect(res.body.error.message).toMatch(/lift line|batten/i);
+    expect(await count()).toBe(before);
+  });
+
+  it('refuses a piece that is not on that line set', async () => {
+    const res = await rail.post('/api/sessions').send({ title: 'Wrong piece', lineSets: [{ lineSetId: ids[2].id, remove: [ids[7].pieces[0].id], add: [] }] });
+    expect(res.status).toBe(400);
+  });
+
+  it('refuses a line set that is already in an open session', async () => {
+    const first = await rail.post('/api/sessions').send({ title: 'First', lineSets: [{ lineSetId: ids[5].id, remove: [], add: [{ name: 'Gauze', massKg: 10, positionM: null }] }] });
+    expect(first.status).toBe(201);
+    const second = await rail.post('/api/sessions').send({ title: 'Second', lineSets: [{ lineSetId: ids[5].id, remove: [], add: [] }] });
+    expect(second.status).toBe(409);
+    expect(second.body.error.message).toMatch(/already in the open session "First"/);
+  });
+
+  it('warns when a line set was last found out of balance', async () => {
+    await t.database.owner.query('UPDATE line_set SET out_of_balance = TRUE WHERE id = ?', [ids[9].id]);
+    const res = await rail.post('/api/sessions').send({ title: 'Flagged', lineSets: [{ lineSetId: ids[9].id, remove: [], add: [{ name: 'Lamp', massKg: 5, positionM: null }] }] });
+    expect(res.status).toBe(201);
+    const [row] = await t.database.owner.query('SELECT plan FROM loading_session WHERE id = ?', [res.body.session.id]);
+    const plan = typeof row.plan === 'string' ? JSON.parse(row.plan) : row.plan;
+    expect(plan.lineSets[0].warnings.map((w: { code: string }) => w.code)).toContain('flagged-out-of-balance');
+  });
+});
