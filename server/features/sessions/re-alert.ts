@@ -7,6 +7,8 @@ import type { SessionsService } from './sessions.service';
  * again, by a system action that is decided and logged like any other. One timer per open session,
  * set again after every commit, and rebuilt from the database when the server starts.
  */
+const RETRY_MS = 2000;
+
 export class ReAlertTimer {
   private readonly timers = new Map<number, NodeJS.Timeout>();
   private stopped = false;
@@ -33,13 +35,19 @@ export class ReAlertTimer {
 
   private async fire(sessionId: number, venueId: number, state: SessionState): Promise<void> {
     this.timers.delete(sessionId);
+    if (this.stopped) return;
     const due = silentSince(state, this.now()).filter((p) => p.due).map((p) => p.personId);
-    if (this.stopped || due.length === 0) return;
+    // A timer can fire a little early by the wall clock: wait again rather than lose the re-alert.
+    if (due.length === 0) return this.track(sessionId, venueId, state);
     try {
       // The commit listener sets the next timer from the new state.
       await this.sessions.actAsSystem(venueId, sessionId, { type: 're-alert', personIds: due });
     } catch (error) {
-      if (!this.stopped) this.logger.error({ err: error, sessionId }, 're-alert failed');
+      if (this.stopped) return;
+      this.logger.error({ err: error, sessionId }, 're-alert failed; trying again');
+      const retry = setTimeout(() => void this.fire(sessionId, venueId, state), RETRY_MS);
+      retry.unref();
+      this.timers.set(sessionId, retry);
     }
   }
 

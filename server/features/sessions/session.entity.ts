@@ -104,6 +104,10 @@ export class ActionKeyRow {
   @Column({ type: 'int', unsigned: true, name: 'person_id' })
   personId: number;
 
+  /** SHA-256 of the action's canonical text: a key reused for another action is refused. */
+  @Column({ type: 'char', length: 64, name: 'action_hash' })
+  actionHash: string;
+
   @Column({ type: 'json' })
   answer: StoredAnswer;
 

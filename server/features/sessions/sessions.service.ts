@@ -1,6 +1,7 @@
+import { createHash } from 'node:crypto';
 import type { DataSource, EntityManager } from 'typeorm';
 import {
-  actionEnvelopeSchema, createSessionState, decide, refusalToApiError, SessionPlanError, SYSTEM_ACTOR,
+  actionEnvelopeSchema, canonicalJson, createSessionState, decide, refusalToApiError, SessionPlanError, SYSTEM_ACTOR,
   type ActionEnvelope, type Actor, type AnyAction, type LogEntry, type SessionState,
 } from '@shared/protocol/session';
 import { lineSetKey, planSession, sessionPlanErrors, type CreateSessionInput, type SessionSummary } from '@shared/protocol/sessions-api';
@@ -12,6 +13,7 @@ import type { ScheduleService } from '../schedule/schedule.service';
 import { LineSetRow } from '../schedule/line-set.entity';
 import { ActionKeyRow, LoadingSessionRow, SessionEventRow, type StoredAnswer } from './session.entity';
 import { appendEntries, toLogEntry } from './session-log';
+import { genesisHash } from './hash-chain';
 import { writeBackTestedLineSets } from './schedule-writeback';
 
 /** What an action comes to: the answer for the phone, and what to broadcast (nothing on a repeat). */
@@ -91,6 +93,7 @@ export class SessionsService {
         lastSeq: 0,
         lastHash: '',
       }));
+      row.lastHash = genesisHash(row);
       const entries = await appendEntries(m, row, [{
         kind: 'session-opened',
         role: null,
@@ -127,6 +130,21 @@ export class SessionsService {
     const row = await this.row(user, id);
     const names = await this.names([row.createdBy]);
     return { session: this.summary(row, names.get(row.createdBy) ?? ''), state: row.state, lastSeq: row.lastSeq };
+  }
+
+  /** The kept record for export: every entry, and what a reader needs to check the chain end to end. */
+  async record(user: SignedInUser, id: number) {
+    const row = await this.row(user, id);
+    const { entries } = await this.events(user, id, 0);
+    const names = await this.names([row.createdBy]);
+    return {
+      session: this.summary(row, names.get(row.createdBy) ?? ''),
+      venueId: row.venueId,
+      genesisHash: genesisHash(row),
+      lastSeq: row.lastSeq,
+      lastHash: row.lastHash,
+      entries,
+    };
   }
 
   /** The log after a sequence number: a phone that reconnects asks for exactly what it missed. */
@@ -169,7 +187,12 @@ export class SessionsService {
       // Looked up under the lock: a retry racing its original waits for it, then sees its answer.
       if (envelope.key) {
         const prior = await m.getRepository(ActionKeyRow).findOneBy({ sessionId, key: envelope.key });
-        if (prior) return { answer: restore(prior.answer, row.state), entries: [], state: row.state };
+        if (prior) {
+          if (prior.personId !== user.id || prior.actionHash !== actionHash(envelope.action)) {
+            throw new HttpError('conflict', 'That action key was already used for another action. The phone makes a new key for each tap: reload and try again.');
+          }
+          return { answer: restore(prior.answer, row.state), entries: [], state: row.state };
+        }
       }
       const nowMs = this.now();
       const before = row.state;
@@ -187,7 +210,7 @@ export class SessionsService {
         ? { ok: true, seq: row.lastSeq }
         : { ok: false, seq: row.lastSeq, error: refusalToApiError(decision) };
       if (envelope.key) {
-        await m.getRepository(ActionKeyRow).insert({ sessionId, key: envelope.key, personId: user.id, answer, createdAtMs: nowMs });
+        await m.getRepository(ActionKeyRow).insert({ sessionId, key: envelope.key, personId: user.id, actionHash: actionHash(envelope.action), answer, createdAtMs: nowMs });
       }
       return { answer: restore(answer, row.state), entries, state: row.state };
     });
@@ -225,6 +248,8 @@ export class SessionsService {
     };
   }
 }
+
+const actionHash = (action: unknown) => createHash('sha256').update(canonicalJson(action)).digest('hex');
 
 function restore(answer: StoredAnswer, state: SessionState): ActOutcome['answer'] {
   return answer.ok ? { ok: true, seq: answer.seq, state } : { ok: false, seq: answer.seq, error: answer.error as ApiError };

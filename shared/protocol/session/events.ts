@@ -27,7 +27,7 @@ export interface LogEntry {
   details: Record<string, unknown>;
   /** Hash of this entry (canonical text from `entryHashText`) chained to `prevHash`. */
   hash: string;
-  /** The hash of entry seq − 1 ('' for the first entry). */
+  /** The hash of entry seq − 1 (for the first entry, the session's genesis hash from its export). */
   prevHash: string;
 }
 
@@ -78,23 +78,28 @@ export function refusalToApiError(decision: Extract<Decision, { ok: false }>): A
   return { code, message: decision.reason };
 }
 
+/** JSON with object keys sorted at every depth (undefined values left out): the same value, the same text. */
+export function canonicalJson(value: unknown): string {
+  const sort = (v: unknown): unknown => {
+    if (Array.isArray(v)) return v.map(sort);
+    if (v && typeof v === 'object') {
+      return Object.fromEntries(
+        Object.keys(v as object)
+          .filter((k) => (v as Record<string, unknown>)[k] !== undefined)
+          .sort()
+          .map((k) => [k, sort((v as Record<string, unknown>)[k])]),
+      );
+    }
+    return v;
+  };
+  return JSON.stringify(sort(value));
+}
+
 /**
  * The exact text the server hashes for an entry (sha-256 of this, hex, is `hash`): every field but
  * `hash`, keys sorted at every depth, so phones can check the chain with the same function.
  */
 export function entryHashText(entry: Omit<LogEntry, 'hash'>): string {
   const { hash: _drop, ...rest } = entry as LogEntry;
-  const sort = (value: unknown): unknown => {
-    if (Array.isArray(value)) return value.map(sort);
-    if (value && typeof value === 'object') {
-      return Object.fromEntries(
-        Object.keys(value as object)
-          .filter((k) => (value as Record<string, unknown>)[k] !== undefined)
-          .sort()
-          .map((k) => [k, sort((value as Record<string, unknown>)[k])]),
-      );
-    }
-    return value;
-  };
-  return JSON.stringify(sort(rest));
+  return canonicalJson(rest);
 }

@@ -67,7 +67,13 @@ describe('a full unload of two drapes from line set 7', () => {
     expect(body.chain).toEqual({ ok: true });
     const entries = body.entries as Array<Record<string, unknown>>;
     expect(entries.map((e) => e.seq)).toEqual(entries.map((_, i) => i + 1));
-    expect(verifyChain(entries as never)).toEqual({ ok: true });
+    expect(verifyChain(entries as never, body.genesisHash, body)).toEqual({ ok: true });
+    // A record that was edited, or cut short, no longer checks out.
+    const edited = structuredClone(entries) as never as Parameters<typeof verifyChain>[0];
+    edited[14].details = { ...edited[14].details, stepIndex: 99 };
+    expect(verifyChain(edited, body.genesisHash, body)).toMatchObject({ ok: false, atSeq: 15 });
+    expect(verifyChain(entries.slice(0, -1) as never, body.genesisHash, body)).toMatchObject({ ok: false });
+    expect(verifyChain(entries as never, 'f'.repeat(64), body)).toMatchObject({ ok: false, atSeq: 1 });
     const kinds = entries.map((e) => e.kind);
     expect(kinds).toEqual([
       'session-opened', 'joined', 'joined', 'joined', 'joined', 'joined', 'began', 'move-called',

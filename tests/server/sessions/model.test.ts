@@ -107,8 +107,9 @@ describe('random actions from random crew members (model-based, real database)',
         state = outcome.state;
         for (const ls of state.lineSets) expect(ls.imbalanceKg).toBeGreaterThanOrEqual(-ARBOR_HEAVY_TOLERANCE_KG);
       }
-      const { entries } = await t.railcall.sessions.events(crew[4], session.id, 0);
-      expect(verifyChain(entries)).toEqual({ ok: true });
+      const record = await t.railcall.sessions.record(crew[4], session.id);
+      const { entries } = record;
+      expect(verifyChain(entries, record.genesisHash, record)).toEqual({ ok: true });
       if (process.env.DEBUG_MODEL) console.log(entries.map((e) => e.kind + (e.kind === 'refused' ? ':' + String(e.details.reason).slice(0, 60) : '')).join('\n'));
       checkOrder(entries, state);
       if (entries.some((e) => e.kind === 'step-confirmed')) reached.steps++;

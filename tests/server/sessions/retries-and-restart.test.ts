@@ -101,7 +101,8 @@ describe('retries, races and a restart mid-session', () => {
     expect(catchUp.entries[0].seq).toBe(heldBySm + 1);
     const log = crew.sm.log();
     expect(log).toHaveLength(await entryCount());
-    expect(verifyChain(log)).toEqual({ ok: true });
+    const record = (await request(t.url).get(`/api/sessions/${sessionId}/record`).set('Cookie', crew.sm.cookie)).body;
+    expect(verifyChain(log, record.genesisHash, record)).toEqual({ ok: true });
     expect(catchUp.state.lineSets[0].flagged).toBe(true);
 
     // An out-of-balance result keeps the line set flagged on the schedule until a balanced test.
@@ -113,5 +114,28 @@ describe('retries, races and a restart mid-session', () => {
     const { body } = await request(t.url).get(`/api/sessions/${sessionId}/events?after=5`).set('Cookie', crew.deck.cookie);
     expect(body.entries[0].seq).toBe(6);
     expect(body.entries.at(-1).seq).toBe(body.lastSeq);
+  });
+});
+
+describe('action keys belong to their first use', () => {
+  let t: TestApp;
+  let crew: Awaited<ReturnType<typeof demoCrew>>;
+  let sessionId: number;
+  beforeAll(async () => {
+    t = await startTestApp();
+    crew = await demoCrew(t.url);
+    ({ sessionId } = await openDrapeUnload(t.url, crew.rail.cookie));
+  });
+  afterAll(async () => {
+    crew.all.forEach((p) => p.close());
+    await t.close();
+  });
+
+  it('refuses the same key from another person, or for another action, and tells keys apart by case', async () => {
+    const key = 'Key-of-the-rail-1';
+    expect((await crew.rail.act(sessionId, { type: 'join', role: 'rail' }, key)).ok).toBe(true);
+    expect(await crew.deck.act(sessionId, { type: 'join', role: 'deck' }, key)).toMatchObject({ ok: false, error: { code: 'conflict' } });
+    expect(await crew.rail.act(sessionId, { type: 'note', text: 'hello' }, key)).toMatchObject({ ok: false, error: { code: 'conflict' } });
+    expect((await crew.deck.act(sessionId, { type: 'join', role: 'deck' }, key.toLowerCase())).ok).toBe(true);
   });
 });
