@@ -20,7 +20,7 @@ import { scheduleRoutes } from './features/schedule/schedule.routes';
 import { createIo, endSignIn, type RailcallServer } from './realtime/io';
 import { SessionsService } from './features/sessions/sessions.service';
 import { sessionRoutes } from './features/sessions/sessions.routes';
-import { broadcastCommitted, sessionSocketFeature } from './features/sessions/sessions.handlers';
+import { broadcastCommitted, sessionSocketFeature, stopWatching } from './features/sessions/sessions.handlers';
 import { PresenceTracker } from './features/sessions/presence';
 import { ReAlertTimer } from './features/sessions/re-alert';
 
@@ -64,7 +64,7 @@ export function createApp({ config, db, logger }: AppDeps): RailcallApp {
       throttles: signInThrottles(config),
       onSignedOut: (sessionId) => io && endSignIn(io, sessionId),
     }),
-    ...peopleRoutes(people),
+    ...peopleRoutes(people, (personId) => io && stopWatching(io, personId)),
     ...scheduleRoutes(schedule),
     ...sessionRoutes(sessions, presence),
   ];

@@ -2,6 +2,7 @@ import type { Request } from 'express';
 import type { PassportStatic } from 'passport';
 import { acceptInviteSchema, signInSchema } from '@shared/protocol/people';
 import { HttpError } from '../../middleware/http-error';
+import { SESSION_COOKIE } from '../../middleware/session';
 import { route, type RouteSpec } from '../../middleware/routes';
 import type { PeopleService, SignedInUser } from '../people/people.service';
 import type { RequestHandler } from 'express';
@@ -59,7 +60,7 @@ export function authRoutes(deps: AuthRouteDeps): RouteSpec[] {
         await new Promise<void>((resolve, reject) => req.logOut((e) => (e ? reject(e) : resolve())));
         await new Promise<void>((resolve, reject) => req.session.destroy((e) => (e ? reject(e) : resolve())));
         deps.onSignedOut(sessionId);
-        res.clearCookie('railcall.sid');
+        res.clearCookie(SESSION_COOKIE);
         res.status(204).end();
       },
     }),
@@ -67,6 +68,7 @@ export function authRoutes(deps: AuthRouteDeps): RouteSpec[] {
       method: 'post',
       path: '/auth/accept-invite',
       access: { public: true },
+      before: deps.throttles.slice(0, 1),
       body: acceptInviteSchema,
       async handler({ req, body }) {
         const personId = await deps.people.acceptInvite(body.token, body.password);

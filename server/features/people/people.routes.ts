@@ -5,7 +5,8 @@ import type { PeopleService } from './people.service';
 
 const ADMIN = { roles: ['admin'] } as const;
 
-export function peopleRoutes(people: PeopleService): RouteSpec[] {
+/** `onRolesChanged` lets live parts (sockets watching sessions) drop what the person may no longer see. */
+export function peopleRoutes(people: PeopleService, onRolesChanged: (personId: number) => void = () => {}): RouteSpec[] {
   return [
     route({
       method: 'get',
@@ -30,7 +31,11 @@ export function peopleRoutes(people: PeopleService): RouteSpec[] {
       access: ADMIN,
       params: idParam,
       body: setRolesSchema,
-      handler: async ({ user, params, body }) => ({ person: await people.setRoles(user.venueId, params.id, body.roles) }),
+      async handler({ user, params, body }) {
+        const person = await people.setRoles(user.venueId, params.id, body.roles);
+        onRolesChanged(person.id);
+        return { person };
+      },
     }),
   ];
 }

@@ -106,6 +106,9 @@ export class PeopleService {
 
   /** Sets the password of an invited person; the token works once. */
   async acceptInvite(token: string, password: string): Promise<number> {
+    // Hash only for a token that exists: an unknown token costs the server nothing.
+    const known = await this.db.getRepository(Person).findOneBy({ inviteTokenHash: sha256(token) });
+    if (!known) throw notFound('That invitation (it may have been used or have expired)');
     const passwordHash = await hashPassword(password);
     return this.db.transaction(async (m: EntityManager) => {
       const repo = m.getRepository(Person);

@@ -35,6 +35,7 @@ export function sessionSocketFeature(sessions: SessionsService, presence: Presen
         const parsed = sessionWatchPayloadSchema.safeParse(payload);
         if (!parsed.success) throw new HttpError('bad-input', 'session:watch needs { sessionId, afterSeq? }.');
         const { sessionId, afterSeq } = parsed.data;
+        socket.data.user = await sessions.stillAtVenue(user());
         const { state } = await sessions.get(user(), sessionId); // 404 for another venue's session
         await socket.join(sessionRoom(sessionId));
         const { entries, lastSeq } = await sessions.events(user(), sessionId, afterSeq ?? 0);
@@ -94,4 +95,14 @@ export function broadcastCommitted(io: RailcallServer, c: { sessionId: number; e
       });
     }
   }
+}
+
+/**
+ * After a person's roles change, their open sockets stop receiving session broadcasts; the phone
+ * watches again (and is checked again) when it reloads.
+ */
+export function stopWatching(io: RailcallServer, personId: number): void {
+  void io.in(personRoom(personId)).fetchSockets().then((sockets) => {
+    for (const s of sockets) for (const room of s.rooms) if (room.startsWith('loading:')) s.leave(room);
+  });
 }

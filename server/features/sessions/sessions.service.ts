@@ -11,6 +11,7 @@ import type { PeopleService, SignedInUser } from '../people/people.service';
 import { Person } from '../people/person.entity';
 import type { ScheduleService } from '../schedule/schedule.service';
 import { LineSetRow } from '../schedule/line-set.entity';
+import { BrickTypeRow } from '../schedule/brick-type.entity';
 import { ActionKeyRow, LoadingSessionRow, SessionEventRow, type StoredAnswer } from './session.entity';
 import { appendEntries, toLogEntry } from './session-log';
 import { genesisHash } from './hash-chain';
@@ -58,6 +59,9 @@ export class SessionsService {
       const missing = ids.filter((id) => !lineSets.some((l) => l.id === id));
       if (missing.length) throw new HttpError('bad-input', `No such line set at this venue: ${missing.join(', ')}.`, { lineSets: ['Unknown line set'] });
       await this.refuseBusyLineSets(m, user.venueId, ids);
+      // The bridge stock is planned with: lock it so two sessions opened at once read it in turn.
+      await m.getRepository(BrickTypeRow).createQueryBuilder('b').setLock('pessimistic_write')
+        .where('b.venue_id = :venueId', { venueId: user.venueId }).getMany();
 
       const planned = planSession({ venue, lineSets, brickTypes: await this.schedule.brickTypes(user.venueId, m) }, input);
       const errors = sessionPlanErrors(planned);
@@ -124,6 +128,13 @@ export class SessionsService {
     const rows = await qb.getMany();
     const names = await this.names(rows.map((r) => r.createdBy));
     return rows.map((r) => this.summary(r, names.get(r.createdBy) ?? ''));
+  }
+
+  /** The person as the database knows them now (roles removed or moved since the socket opened count). */
+  async stillAtVenue(user: SignedInUser): Promise<SignedInUser> {
+    const fresh = await this.people.loadUser(user.id);
+    if (!fresh || fresh.venueId !== user.venueId) throw new HttpError('forbidden', 'You no longer hold a role at this venue.');
+    return fresh;
   }
 
   async get(user: SignedInUser, id: number): Promise<{ session: SessionSummary; state: SessionState; lastSeq: number }> {

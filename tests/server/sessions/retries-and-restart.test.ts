@@ -139,3 +139,31 @@ describe('action keys belong to their first use', () => {
     expect((await crew.deck.act(sessionId, { type: 'join', role: 'deck' }, key.toLowerCase())).ok).toBe(true);
   });
 });
+
+describe('a person whose roles are taken away', () => {
+  let t: TestApp;
+  let crew: Awaited<ReturnType<typeof demoCrew>>;
+  let sessionId: number;
+  beforeAll(async () => {
+    t = await startTestApp();
+    crew = await demoCrew(t.url);
+    ({ sessionId } = await openDrapeUnload(t.url, crew.rail.cookie));
+    for (const phone of crew.all) await phone.watch(sessionId);
+  });
+  afterAll(async () => {
+    crew.all.forEach((p) => p.close());
+    await t.close();
+  });
+
+  it('stops receiving the session on the phone already open, and cannot watch it again', async () => {
+    const [deck] = await t.database.owner.query("SELECT id FROM person WHERE email = 'deck@larkspur.example'");
+    const admin = await request.agent(t.url);
+    await admin.post('/api/auth/sign-in').send({ email: 'td@larkspur.example', password: 'larkspur-demo' });
+    expect((await admin.put(`/api/people/${deck.id}/roles`).send({ roles: [] })).status).toBe(200);
+    await new Promise((r) => setTimeout(r, 100));
+    const seq = await crew.rail.must(sessionId, { type: 'join', role: 'rail' });
+    await crew.sm.caughtUpTo(seq);
+    expect(crew.deck.lastSeq).toBeLessThan(seq);
+    expect(await crew.deck.watch(sessionId)).toMatchObject({ ok: false, error: { code: 'forbidden' } });
+  });
+});
