@@ -43,6 +43,16 @@ test('a complete two-drape unload, tapped on five phones', async ({ browser }) =
 
   // The call takes over the loaders' and the deck's screens with one large "clear".
   for (const p of [loader1, loader2, deck]) await expect(p.page.getByTestId('call-alert')).toBeVisible();
+  // The call covers the hold bar, so it carries its own HOLD: a full thumb's target at the bottom edge.
+  const alertHold = deck.page.getByTestId('alert-call-hold');
+  await expect(alertHold).toBeVisible();
+  await expect(alertHold).toHaveAccessibleName('Call a hold: stop everything');
+  const holdBox = (await alertHold.boundingBox())!;
+  const clearBox = (await deck.page.getByTestId('alert-clear').boundingBox())!;
+  expect(holdBox.height).toBeGreaterThanOrEqual(48);
+  expect(holdBox.y).toBeGreaterThan(clearBox.y + clearBox.height);
+  expect(holdBox.y + holdBox.height).toBeGreaterThan(deck.page.viewportSize()!.height * 0.8);
+  expect(clearBox.height).toBeGreaterThan(holdBox.height);
   await shot(deck.page, 'deck-call');
   await tapWhenShown(loader1, 'alert-clear');
   await tapWhenShown(loader2, 'alert-clear');

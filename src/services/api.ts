@@ -2,7 +2,7 @@ import type { AddPersonInput, AddPersonResult, Me, PersonRow, SignInInput } from
 import type { Role } from '@shared/protocol/roles';
 import type { ScheduleView } from '@shared/protocol/schedule';
 import type { CreateSessionInput, PresenceEntry, SessionSummary } from '@shared/protocol/sessions-api';
-import type { ActionEnvelope, LogEntry, SessionState } from '@shared/protocol/session';
+import type { LogEntry, SessionState } from '@shared/protocol/session';
 import { ApiFailure, http } from './http';
 
 /**
@@ -31,15 +31,10 @@ export const addPerson = (input: AddPersonInput) => http.post<AddPersonResult>('
 export const setPersonRoles = (id: number, roles: Role[]) =>
   http.put<{ person: PersonRow }>(`/api/people/${id}/roles`, { roles });
 
-/** Running loading sessions of the venue; a 404 (route not there yet) counts as none. */
+/** Running loading sessions of the venue. */
 export async function listActiveSessions(): Promise<SessionSummary[]> {
-  try {
-    const answer = await http.get<{ sessions?: SessionSummary[] }>('/api/sessions', { query: { active: 1 } });
-    return answer?.sessions ?? [];
-  } catch (error) {
-    if (error instanceof ApiFailure && error.status === 404) return [];
-    throw error;
-  }
+  const answer = await http.get<{ sessions: SessionSummary[] }>('/api/sessions', { query: { active: 1 } });
+  return answer.sessions;
 }
 
 export const getSchedule = () => http.get<ScheduleView>('/api/schedule');
@@ -59,7 +54,3 @@ export const getSession = (id: number) => http.get<SessionSnapshot>(`/api/sessio
 /** Log entries after `afterSeq`, for catching up when the live connection cannot. */
 export const getSessionEvents = (id: number, afterSeq: number) =>
   http.get<{ entries: LogEntry[]; lastSeq: number }>(`/api/sessions/${id}/events`, { query: { after: afterSeq } });
-
-/** The same handler as the socket's `session:act`; a refusal rejects with the server's reason. */
-export const postSessionAction = (id: number, envelope: ActionEnvelope) =>
-  http.post<{ ok: true; seq: number; state: SessionState }>(`/api/sessions/${id}/actions`, envelope);

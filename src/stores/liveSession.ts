@@ -18,15 +18,19 @@ import { socket } from '@/services/socket';
 import { makeActionKey } from '@/utils/actionKey';
 import { useAuthStore } from './auth';
 
-/** The session events as this store uses them (a superset of the app's event maps while they grow). */
-// The shared event maps type the socket for sessions too (shared/protocol/events.ts).
+/** The app's one socket, typed by the shared event maps (shared/protocol/events.ts). */
 const live = socket;
 
 /** How long a phone waits for the server's answer to one tap before trying again with the same key. */
 const ACK_TIMEOUT_MS = 8000;
 
+/** How long a phone waits before sending an unanswered tap again. */
+const RETRY_MS = 1000;
+
 /** One tap on its way to the server. The key is made once, at the tap, and kept for every retry. */
 export interface PendingAction {
+  /** The session the tap was made in: it goes there or nowhere. */
+  sessionId: number;
   envelope: ActionEnvelope;
   /** True while a send is waiting for its answer. */
   inFlight: boolean;
@@ -76,6 +80,8 @@ export const useLiveSessionStore = defineStore('liveSession', () => {
   const outbox = ref<PendingAction[]>([]);
   /** The last alert addressed to this person (a re-alert or a hold), with when it arrived. */
   const alert = ref<(SessionAlert & { receivedAtMs: number }) | null>(null);
+  /** A re-alert naming this person from a session that is not the one open here (shown on any screen). */
+  const alertElsewhere = ref<(SessionAlert & { receivedAtMs: number }) | null>(null);
   /** The last refusal, in the server's words (also shown as a notice). */
   const lastRefusal = ref<string | null>(null);
 
@@ -84,6 +90,16 @@ export const useLiveSessionStore = defineStore('liveSession', () => {
   const me = computed(() => (state.value ? (participantOf(state.value, myId.value) ?? null) : null));
 
   const settle = new Map<string, (result: ActResult) => void>();
+  /** Retries waiting to go; cleared when the session closes, so none reaches the next one. */
+  const retries = new Set<ReturnType<typeof setTimeout>>();
+
+  function later(run: () => void): void {
+    const timer = setTimeout(() => {
+      retries.delete(timer);
+      run();
+    }, RETRY_MS);
+    retries.add(timer);
+  }
 
   function takeState(next: SessionState, seq: number): void {
     if (seq >= stateSeq.value) {
@@ -110,6 +126,8 @@ export const useLiveSessionStore = defineStore('liveSession', () => {
     for (const pending of outbox.value) settle.get(pending.envelope.key)?.({ ok: false, code: 'closed', message: 'The session was closed on this phone.' });
     outbox.value = [];
     settle.clear();
+    for (const timer of retries) clearTimeout(timer);
+    retries.clear();
   }
 
   /** Fetches what the live connection missed, over plain HTTP (state, presence and every later entry). */
@@ -132,7 +150,7 @@ export const useLiveSessionStore = defineStore('liveSession', () => {
       if (sessionId.value !== id) return;
       if (error || !res) {
         // No answer in time: try again while still connected.
-        if (live.connected) setTimeout(watch, 1000);
+        if (live.connected) later(watch);
         return;
       }
       if (!res.ok) {
@@ -155,6 +173,7 @@ export const useLiveSessionStore = defineStore('liveSession', () => {
       if (sessionId.value !== null) close();
       sessionId.value = id;
     }
+    if (alertElsewhere.value?.sessionId === id) alertElsewhere.value = null;
     loading.value = true;
     loadError.value = null;
     try {
@@ -184,15 +203,21 @@ export const useLiveSessionStore = defineStore('liveSession', () => {
     Notify.create({ type: 'negative', message, timeout: 7000, actions: [{ label: 'Dismiss', flat: true }] });
   }
 
+  /** True while the tap still waits in the outbox of the session it was made in. */
+  function stillQueued(pending: PendingAction): boolean {
+    return pending.sessionId === sessionId.value && outbox.value.some((p) => p.envelope.key === pending.envelope.key);
+  }
+
   function send(pending: PendingAction): void {
-    const id = sessionId.value;
-    if (id === null || pending.inFlight || !live.connected) return;
+    if (!stillQueued(pending) || pending.inFlight || !live.connected) return;
     pending.inFlight = true;
-    live.timeout(ACK_TIMEOUT_MS).emit('session:act', { sessionId: id, envelope: pending.envelope }, (error: Error | null, res: Ack<{ seq: number; state: SessionState }>) => {
+    live.timeout(ACK_TIMEOUT_MS).emit('session:act', { sessionId: pending.sessionId, envelope: pending.envelope }, (error: Error | null, res: Ack<{ seq: number; state: SessionState }>) => {
       pending.inFlight = false;
+      // The session was closed (or another opened) while this tap was out: its answer belongs to no screen here.
+      if (!stillQueued(pending)) return;
       if (error || !res) {
         // No answer: keep it queued; the same key goes again (now, or after the reconnect).
-        if (live.connected) setTimeout(() => send(pending), 1000);
+        if (live.connected) later(() => send(pending));
         return;
       }
       outbox.value = outbox.value.filter((p) => p !== pending);
@@ -210,8 +235,12 @@ export const useLiveSessionStore = defineStore('liveSession', () => {
     });
   }
 
+  /** Sends every queued tap, a queued hold ahead of the rest. */
   function flush(): void {
-    for (const pending of outbox.value) send(pending);
+    const holdsFirst = [...outbox.value].sort(
+      (a, b) => Number(b.envelope.action.type === 'call-hold') - Number(a.envelope.action.type === 'call-hold'),
+    );
+    for (const pending of holdsFirst) send(pending);
   }
 
   /**
@@ -219,8 +248,10 @@ export const useLiveSessionStore = defineStore('liveSession', () => {
    * reconnect), with a refusal's reason in plain words. The tap is queued while the phone is offline.
    */
   function act(action: SessionAction): Promise<ActResult> {
+    const id = sessionId.value;
+    if (id === null) return Promise.resolve({ ok: false, code: 'closed', message: 'No session is open on this phone.' });
     const envelope: ActionEnvelope = { key: makeActionKey(), clientTimeMs: Date.now(), action };
-    const pending: PendingAction = { envelope, inFlight: false };
+    const pending: PendingAction = { sessionId: id, envelope, inFlight: false };
     outbox.value = [...outbox.value, pending];
     const result = new Promise<ActResult>((resolve) => settle.set(envelope.key, resolve));
     // Send the reactive copy, so `inFlight` shows on screen.
@@ -230,6 +261,10 @@ export const useLiveSessionStore = defineStore('liveSession', () => {
 
   function dismissAlert(): void {
     alert.value = null;
+  }
+
+  function dismissAlertElsewhere(): void {
+    alertElsewhere.value = null;
   }
 
   live.on('connect', () => {
@@ -252,10 +287,13 @@ export const useLiveSessionStore = defineStore('liveSession', () => {
     if (payload.sessionId === sessionId.value) presence.value = payload.presence;
   });
   live.on('session:alert', (payload) => {
-    if (payload.sessionId !== sessionId.value) return;
-    if (payload.kind === 'hold' || payload.people.some((p) => p.personId === myId.value)) {
-      alert.value = { ...payload, receivedAtMs: Date.now() };
+    const forMe = payload.people.some((p) => p.personId === myId.value);
+    if (payload.sessionId === sessionId.value) {
+      if (payload.kind === 'hold' || forMe) alert.value = { ...payload, receivedAtMs: Date.now() };
+      return;
     }
+    // Someone is waiting on this person's "clear" in a session not open here: say so on any screen.
+    if (payload.kind === 're-alert' && forMe) alertElsewhere.value = { ...payload, receivedAtMs: Date.now() };
   });
 
   return {
@@ -270,6 +308,7 @@ export const useLiveSessionStore = defineStore('liveSession', () => {
     watching,
     outbox,
     alert,
+    alertElsewhere,
     lastRefusal,
     lastSeq,
     myId,
@@ -279,5 +318,6 @@ export const useLiveSessionStore = defineStore('liveSession', () => {
     refresh,
     act,
     dismissAlert,
+    dismissAlertElsewhere,
   };
 });
