@@ -23,6 +23,8 @@ export default defineConfig({
     },
   },
   test: {
+    // A stray .only would run a few tests and report green.
+    allowOnly: false,
     // One MariaDB for the whole run (started by scripts/test.mjs); each file makes its own database.
     projects: [
       {

@@ -15,6 +15,8 @@ export default defineConfig({
   workers: 1,
   fullyParallel: false,
   retries: 0,
+  // A stray .only would run a few tests and report green.
+  forbidOnly: true,
   timeout: 90_000,
   expect: { timeout: 10_000 },
   use: {

@@ -4,6 +4,7 @@ import { spawn, spawnSync } from 'node:child_process';
 import { dirname, join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { ensureDebianPackages, ensureNodeModules } from './lib/install.mjs';
+import { createConnection } from 'node:net';
 import { MariaDb } from './lib/mariadb.mjs';
 import { loadOrCreateCredentials, provisionDatabase } from './lib/app-db.mjs';
 
@@ -12,12 +13,24 @@ const dataDir = join(root, '.data');
 const dbPort = Number(process.env.RAILCALL_DB_PORT ?? 3407);
 const appPort = Number(process.env.RAILCALL_PORT ?? 3000);
 
+/** True when something already listens on the port (another Railcall, most likely). */
+const portInUse = (port) => new Promise((resolve) => {
+  const socket = createConnection({ port, host: '127.0.0.1' });
+  socket.once('connect', () => { socket.destroy(); resolve(true); });
+  socket.once('error', () => resolve(false));
+});
+if (await portInUse(appPort)) {
+  console.error(`[start] port ${appPort} is in use: is Railcall already running? Stop it first, or set RAILCALL_PORT.`);
+  process.exit(1);
+}
+
 ensureDebianPackages(['mariadb-server']);
 ensureNodeModules(root);
 
 const db = new MariaDb({ baseDir: join(dataDir, 'mariadb'), port: dbPort });
 console.log(`[start] MariaDB on 127.0.0.1:${dbPort} (data in .data/mariadb)`);
-await db.start();
+// The app port is free, so a database already running here is a leftover: take it over.
+await db.start({ adoptRunning: true });
 
 let server;
 let stopping = false;

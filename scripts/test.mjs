@@ -1,7 +1,7 @@
 // `npm test`: installs what is missing, starts a throwaway MariaDB, runs Vitest then Playwright,
 // stops MariaDB and prints `tests: N passed, N failed` (the sum of both runners).
 // Node built-ins only until `npm ci` has run. RAILCALL_TEST_ONLY=unit|e2e runs one runner.
-import { spawnSync } from 'node:child_process';
+import { spawn } from 'node:child_process';
 import { existsSync, mkdirSync, mkdtempSync, readFileSync, rmSync } from 'node:fs';
 import { randomBytes } from 'node:crypto';
 import { tmpdir } from 'node:os';
@@ -24,10 +24,24 @@ const db = new MariaDb({ baseDir: mkdtempSync(join(tmpdir(), 'railcall-test-')),
 const totals = { passed: 0, failed: 0, skipped: 0 };
 let exitCode = 0;
 
+let interrupted = false;
+let child = null;
+// Ctrl-C or SIGTERM: stop the runner, then still shut the throwaway database down (finally, below).
+for (const signal of ['SIGINT', 'SIGTERM']) {
+  process.on(signal, () => {
+    interrupted = true;
+    child?.kill(signal);
+  });
+}
+
 function run(label, cmd, args, env) {
+  if (interrupted) return Promise.resolve(1);
   console.log(`\n[test] ${label}`);
-  const result = spawnSync(cmd, args, { cwd: root, stdio: 'inherit', env: { ...process.env, NO_COLOR: '1', FORCE_COLOR: '0', ...env } });
-  return result.status ?? 1;
+  return new Promise((resolve) => {
+    child = spawn(cmd, args, { cwd: root, stdio: 'inherit', env: { ...process.env, NO_COLOR: '1', FORCE_COLOR: '0', ...env } });
+    child.on('exit', (code) => { child = null; resolve(code ?? 1); });
+    child.on('error', () => { child = null; resolve(1); });
+  });
 }
 
 function readJson(file) {
@@ -49,22 +63,23 @@ try {
 
   if (only !== 'e2e') {
     const file = join(reportDir, 'vitest.json');
-    const status = run('unit and API tests (Vitest)', bin('vitest'), ['run', '--reporter=default', '--reporter=json', `--outputFile.json=${file}`], env);
+    const status = await run('unit and API tests (Vitest)', bin('vitest'), ['run', '--reporter=default', '--reporter=json', `--outputFile.json=${file}`], env);
     const report = readJson(file);
     if (report) {
       totals.passed += report.numPassedTests;
       totals.failed += report.numFailedTests;
       totals.skipped += report.numPendingTests + (report.numTodoTests ?? 0);
     }
-    if (status !== 0 && (!report || report.numFailedTests === 0)) totals.failed += 1; // the runner itself failed
+    // A runner that crashed, wrote no report, or ran nothing is a failure, never a quiet green.
+    if (!report || report.numTotalTests === 0 || (status !== 0 && report.numFailedTests === 0)) totals.failed += 1;
     if (status !== 0) exitCode = 1;
   }
 
   if (only !== 'unit') {
-    const built = run('building the client for end-to-end tests', bin('vite'), ['build', '--logLevel', 'warn'], {});
+    const built = await run('building the client for end-to-end tests', bin('vite'), ['build', '--logLevel', 'warn'], {});
     if (built !== 0) { totals.failed += 1; exitCode = 1; }
     const file = join(reportDir, 'playwright.json');
-    const status = built !== 0 ? 1 : run('end-to-end tests (Playwright, Debian chromium)', bin('playwright'),
+    const status = built !== 0 ? 1 : await run('end-to-end tests (Playwright, Debian chromium)', bin('playwright'),
       ['test', '-c', 'e2e/playwright.config.ts', '--reporter=list,json'], { ...env, PLAYWRIGHT_JSON_OUTPUT_NAME: file });
     const report = readJson(file);
     if (report) {
@@ -72,7 +87,8 @@ try {
       totals.failed += report.stats.unexpected;
       totals.skipped += report.stats.skipped;
     }
-    if (status !== 0 && (!report || report.stats.unexpected === 0) && built === 0) totals.failed += 1;
+    const ran = report ? report.stats.expected + report.stats.unexpected + report.stats.flaky : 0;
+    if (built === 0 && (!report || ran === 0 || (status !== 0 && report.stats.unexpected === 0))) totals.failed += 1;
     if (status !== 0) exitCode = 1;
   }
 } catch (error) {
@@ -84,6 +100,6 @@ try {
   db.destroy();
 }
 
-if (totals.failed > 0) exitCode = 1;
+if (totals.failed > 0 || interrupted) exitCode = 1;
 console.log(`\ntests: ${totals.passed} passed, ${totals.failed} failed${totals.skipped ? `, ${totals.skipped} skipped` : ''}`);
 process.exit(exitCode);

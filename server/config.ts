@@ -14,6 +14,8 @@ const envSchema = z.object({
   RAILCALL_DB_OWNER_PASSWORD: z.string().default(''),
   RAILCALL_SESSION_SECRET: z.string().min(16, 'RAILCALL_SESSION_SECRET must be at least 16 characters'),
   RAILCALL_CLIENT_DIR: z.string().default('dist'),
+  /** Seed the demo venue (with its published demo passwords) into an empty database. Off in production unless set. */
+  RAILCALL_SEED_DEMO: z.enum(['0', '1']).optional(),
   RAILCALL_LOG_LEVEL: z.enum(['fatal', 'error', 'warn', 'info', 'debug', 'silent']).default('info'),
 });
 
@@ -41,6 +43,7 @@ export interface Config {
   jsonLimit: string;
   clientDir: string | null;
   logLevel: 'fatal' | 'error' | 'warn' | 'info' | 'debug' | 'silent';
+  seedDemo: boolean;
 }
 
 export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
@@ -59,5 +62,6 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
     jsonLimit: '32kb',
     clientDir: e.RAILCALL_CLIENT_DIR,
     logLevel: e.RAILCALL_LOG_LEVEL,
+    seedDemo: e.RAILCALL_SEED_DEMO ? e.RAILCALL_SEED_DEMO === '1' : e.NODE_ENV !== 'production',
   };
 }

@@ -13,7 +13,7 @@ const owner = createDataSource(config.dbOwner, { poolSize: 2 });
 await owner.initialize();
 const ran = await migrate(owner, config);
 if (ran.length) logger.info({ migrations: ran }, 'migrated');
-const seeded = await seedIfEmpty(owner);
+const seeded = config.seedDemo ? await seedIfEmpty(owner) : false;
 await owner.destroy();
 
 const db = createDataSource(config.db);
@@ -23,8 +23,11 @@ await railcall.start();
 railcall.httpServer.listen(config.port, config.host, () => {
   const url = `http://localhost:${config.port}`;
   if (seeded) logger.info('seeded the demo venue');
-  console.log(`\nRailcall is running at ${url}\nDemo accounts (password "${DEMO_PASSWORD}"):`);
-  for (const a of DEMO_ACCOUNTS) console.log(`  ${a.email.padEnd(28)} ${a.roles.join(', ').padEnd(14)} ${a.name}`);
+  console.log(`\nRailcall is running at ${url}`);
+  if (config.seedDemo) {
+    console.log(`Demo accounts (password "${DEMO_PASSWORD}"):`);
+    for (const a of DEMO_ACCOUNTS) console.log(`  ${a.email.padEnd(28)} ${a.roles.join(', ').padEnd(14)} ${a.name}`);
+  }
   console.log('');
 });
 

@@ -32,7 +32,8 @@ export function ensureNodeModules(root) {
   const lock = join(root, 'package-lock.json');
   if (existsSync(marker) && statSync(marker).mtimeMs >= statSync(lock).mtimeMs) return;
   console.log('[setup] installing npm dependencies (npm ci)');
-  run('npm', ['ci', '--no-audit', '--no-fund'], { cwd: root });
+  // --include=dev: the build and the tests need the dev dependencies even under NODE_ENV=production.
+  run('npm', ['ci', '--include=dev', '--no-audit', '--no-fund'], { cwd: root });
 }
 
 /** Runs a command and returns its standard output, throwing with its error output on failure. */

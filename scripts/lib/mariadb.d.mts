@@ -4,7 +4,7 @@ export class MariaDb {
   constructor(opts: { baseDir: string; port: number });
   readonly port: number;
   readonly socket: string;
-  start(): Promise<void>;
+  start(opts?: { adoptRunning?: boolean }): Promise<void>;
   stop(): Promise<void>;
   sql(statements: string): string;
   destroy(): void;

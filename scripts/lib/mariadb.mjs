@@ -33,6 +33,7 @@ export function freePort() {
 export class MariaDb {
   /** @param {{ baseDir: string, port: number }} opts baseDir holds datadir/, run/ and mariadb.err */
   constructor({ baseDir, port }) {
+    this.owned = false;
     this.baseDir = baseDir;
     this.port = port;
     this.datadir = join(baseDir, 'datadir');
@@ -55,10 +56,19 @@ export class MariaDb {
     if (result.status !== 0) throw new Error(`mariadb-install-db failed:\n${result.stderr}`);
   }
 
-  async start() {
+  /**
+   * Starts the instance, or uses the one already running on this datadir. `adoptRunning`: the caller
+   * knows nothing else uses it (a leftover of an interrupted run), so this process stops it at the end.
+   */
+  async start({ adoptRunning = false } = {}) {
     if (!this.initialised) this.init();
     mkdirSync(this.runDir, { recursive: true });
-    if (await this.ping()) return; // already running (e.g. left from an interrupted run)
+    // Already running: left by an interrupted run, or serving another process. Use it, never stop it.
+    if (await this.ping()) {
+      this.owned = adoptRunning;
+      return;
+    }
+    this.owned = true;
     const out = openSync(this.errorLog, 'a');
     this.process = spawn('mariadbd', [
       '--no-defaults', `--datadir=${this.datadir}`, '--user=root',
@@ -95,8 +105,9 @@ export class MariaDb {
   }
 
   /** Clean shutdown; waits for the pid file to go (the exited process can linger as a zombie). */
+  /** Shuts down the instance this process started; one it found running is left alone. */
   async stop() {
-    if (!(await this.ping())) return;
+    if (!this.owned || !(await this.ping())) return;
     spawnSync('mariadb-admin', ['--no-defaults', `--socket=${this.socket}`, '-uroot', 'shutdown'], { stdio: 'ignore' });
     for (let i = 0; i < 300 && existsSync(this.pidFile); i++) await sleep(100);
   }

@@ -8,11 +8,29 @@ import type { StoredPlan } from './session.entity';
 const PIECE_KEY = /^p(\d+)$/;
 
 /**
+ * What the schedule must learn from one decision: a line set's first test writes its new load;
+ * every test sets its flag; a session ended early writes the load of every set that was worked but
+ * not tested, and flags it, since nobody checked its balance.
+ * Runs in the same transaction as the action.
+ */
+export async function writeBackSchedule(m: EntityManager, venueId: number, plan: StoredPlan, before: SessionState, after: SessionState): Promise<void> {
+  await writeBackTestedLineSets(m, venueId, plan, before, after);
+  if (before.phase !== 'finished' && after.phase === 'finished' && after.endedHow === 'ended') {
+    for (const ls of after.lineSets) {
+      const stored = plan.lineSets.find((p) => p.key === ls.id);
+      if (!stored || ls.tests.length > 0 || !ls.done.some(Boolean)) continue;
+      await writeLoad(m, venueId, stored, ls);
+      await m.getRepository(LineSetRow).update({ id: stored.scheduleId, venueId }, { outOfBalance: true });
+    }
+  }
+}
+
+/**
  * Once a line set's balance has been tested, the schedule shows what it carries now: its bricks,
  * its pieces, the bridge stock, and the out-of-balance flag (kept until a balanced test).
  * Runs in the same transaction as the action that recorded the test.
  */
-export async function writeBackTestedLineSets(m: EntityManager, venueId: number, plan: StoredPlan, before: SessionState, after: SessionState): Promise<void> {
+async function writeBackTestedLineSets(m: EntityManager, venueId: number, plan: StoredPlan, before: SessionState, after: SessionState): Promise<void> {
   for (const [i, ls] of after.lineSets.entries()) {
     const was = before.lineSets[i];
     if (ls.tests.length === was.tests.length) continue;

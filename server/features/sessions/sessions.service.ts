@@ -15,7 +15,7 @@ import { BrickTypeRow } from '../schedule/brick-type.entity';
 import { ActionKeyRow, LoadingSessionRow, SessionEventRow, type StoredAnswer } from './session.entity';
 import { appendEntries, toLogEntry } from './session-log';
 import { genesisHash } from './hash-chain';
-import { writeBackTestedLineSets } from './schedule-writeback';
+import { writeBackSchedule } from './schedule-writeback';
 
 /** What an action comes to: the answer for the phone, and what to broadcast (nothing on a repeat). */
 export interface ActOutcome {
@@ -214,7 +214,7 @@ export class SessionsService {
       if (decision.ok) {
         row.state = decision.state;
         row.phase = decision.state.phase;
-        await writeBackTestedLineSets(m, user.venueId, row.plan, before, decision.state);
+        await writeBackSchedule(m, user.venueId, row.plan, before, decision.state);
       }
       await m.getRepository(LoadingSessionRow).update({ id: row.id }, { state: row.state, phase: row.phase, lastSeq: row.lastSeq, lastHash: row.lastHash });
       const answer: StoredAnswer = decision.ok

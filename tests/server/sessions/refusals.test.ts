@@ -145,3 +145,45 @@ describe('the session refuses what is out of order', () => {
     expect(sock).toMatchObject({ ok: false, error: { code: 'bad-input' } });
   });
 });
+
+describe('ending a session early', () => {
+  let t: TestApp;
+  let crew: Awaited<ReturnType<typeof demoCrew>>;
+  let sessionId: number;
+  beforeAll(async () => {
+    t = await startTestApp();
+    crew = await demoCrew(t.url);
+    ({ sessionId } = await openDrapeUnload(t.url, crew.rail.cookie));
+  });
+  afterAll(async () => {
+    crew.all.forEach((p) => p.close());
+    await t.close();
+  });
+
+  it('writes the half-done load back to the schedule and flags the set, whose balance nobody tested', async () => {
+    const go = (phone: Phone, action: SessionAction) => phone.must(sessionId, action);
+    await go(crew.rail, { type: 'join', role: 'rail' });
+    await go(crew.loader1, { type: 'join', role: 'loader' });
+    await go(crew.deck, { type: 'join', role: 'deck' });
+    await go(crew.rail, { type: 'begin', shortCrewReason: 'Second loader off sick' });
+    await go(crew.rail, { type: 'call-move' });
+    await go(crew.loader1, { type: 'answer-clear' });
+    await go(crew.deck, { type: 'answer-clear' });
+    await go(crew.rail, { type: 'confirm-locked' });
+    await go(crew.loader1, { type: 'call-clear-rail' });
+    await go(crew.rail, { type: 'confirm-rail-clear' });
+    await go(crew.loader1, { type: 'confirm-step', stepIndex: 0 });
+    // Not while the loaders handle steel.
+    expect(await crew.rail.act(sessionId, { type: 'end', reason: 'Out of time' })).toMatchObject({ ok: false });
+    await go(crew.deck, { type: 'confirm-step', stepIndex: 1 });
+    await go(crew.loader1, { type: 'confirm-step', stepIndex: 2 });
+    await go(crew.deck, { type: 'confirm-step', stepIndex: 3 });
+    await go(crew.loader1, { type: 'call-loading-complete' });
+    await go(crew.rail, { type: 'end', reason: 'Fire alarm: building evacuated' });
+
+    const { body } = await request(t.url).get('/api/schedule').set('Cookie', crew.rail.cookie);
+    const ls7 = body.lineSets.find((l: { number: number }) => l.number === 7);
+    expect(ls7.pieces).toEqual([]);
+    expect(ls7.outOfBalance).toBe(true);
+  });
+});
