@@ -22,7 +22,7 @@
  * stage managers. Before loading begins, a leaving lead hands the lead to the next rail operator who
  * joined; once loading has begun the lead cannot leave (end the session with a reason instead).
  */
-import { applyStep, loadImbalanceKg } from '../../rigging';
+import { applyStep, formatMass, loadImbalanceKg } from '../../rigging';
 import { ROLE_LABELS, type SessionRole } from '../roles';
 import type { SessionAction, SystemAction } from './schema';
 import {
@@ -206,6 +206,11 @@ export const RULES: RuleTable = {
       }
       const nextIndex = state.lineSets.findIndex((l) => l.stage === 'waiting');
       if (nextIndex < 0) return alreadyDone('Every line set in this session has been called.');
+      // A tie-off is never left unattended: the rail operator stays with a tied set until it is corrected.
+      const tied = state.lineSets.find((l) => l.tiedOff);
+      if (tied) {
+        return refuse(`${capital(lineSetLabel(tied.name))} is tied off out of balance: correct it and record a balanced test before calling another set (a tie-off is never left unattended).`, { lineSetId: tied.id });
+      }
       const ls = state.lineSets[nextIndex];
       state.activeIndex = nextIndex;
       ls.stage = 'move-called';
@@ -419,6 +424,16 @@ export const RULES: RuleTable = {
       }
       const wasFlagged = ls.flagged;
       const estimateKg = action.result === 'balanced' ? null : (action.estimateKg ?? null);
+      // Beyond what the rope lock holds, the set must be tied off before anyone moves on (TRADE.md).
+      const beyondLock = estimateKg !== null && estimateKg > ls.ropeLockLimitKg;
+      if (beyondLock && !action.tiedOff) {
+        return refuse(
+          `That is more out of balance than the rope lock holds (${formatMass(ls.ropeLockLimitKg, 'imperial')}, ${formatMass(ls.ropeLockLimitKg, 'metric')}): tie ${lineSetLabel(ls.name)} off at the rail first, keep it attended, and record the test as tied off.`,
+          { lineSetId: ls.id },
+        );
+      }
+      const wasTied = ls.tiedOff;
+      ls.tiedOff = beyondLock || (ls.tiedOff && action.result !== 'balanced');
       ls.tests.push({ result: action.result, estimateKg, note: action.note ?? null, atMs: nowMs, byPersonId: me.personId });
       ls.flagged = action.result !== 'balanced';
       ls.stage = 'tested';
@@ -434,6 +449,8 @@ export const RULES: RuleTable = {
             note: action.note ?? null,
             flagged: ls.flagged,
             flagCleared: wasFlagged && !ls.flagged,
+            tiedOff: ls.tiedOff,
+            untied: wasTied && !ls.tiedOff,
             computedImbalanceKg: ls.imbalanceKg,
           },
         },

@@ -33,6 +33,8 @@ const recordTestSchema = z
     /** How far out of balance, estimated at the rail (kg at the batten). Needed unless balanced. */
     estimateKg: z.number().finite().positive().max(ESTIMATE_MAX_KG).optional(),
     note: said(REASON_MAX_CHARS).optional(),
+    /** The rail operator has tied the set off at the rail: needed when it is out by more than the rope lock holds. */
+    tiedOff: z.boolean().optional(),
     /** Re-test an earlier line set (after a correction); the line set being worked when left out. */
     lineSetId: lineSetIdSchema.optional(),
   })

@@ -252,7 +252,8 @@ export function describeEntry(entry: DescribableEntry, state?: SessionState, uni
       const result = d.result === 'balanced' ? 'balanced' : `${d.result} by about ${units ? formatMass(Number(d.estimateKg), units) : `${d.estimateKg} kg`}`;
       const note = d.note ? ` ("${d.note}")` : '';
       const flag = d.flagCleared ? ' The flag is cleared.' : d.flagged ? ' It stays flagged until corrected.' : '';
-      return `${who} tested ${label}: ${result}${note}.${flag}`;
+      const tie = d.tiedOff ? ' It is tied off at the rail.' : d.untied ? ' The tie-off is undone.' : '';
+      return `${who} tested ${label}: ${result}${note}.${flag}${tie}`;
     }
     case 'hold-called':
       return `${who} called a hold${d.reason ? `: "${d.reason}"` : ''}.`;

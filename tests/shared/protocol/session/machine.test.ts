@@ -456,3 +456,33 @@ function deepFreeze<T>(value: T): T {
   }
   return value;
 }
+
+describe('a balance test beyond what the rope lock holds', () => {
+  const unloaded = () => {
+    const s = new Session([twoDrapeLineSet, trussLineSet]).toRailClear();
+    s.do(sam, { type: 'confirm-step', stepIndex: 0 });
+    s.do(robin, { type: 'confirm-step', stepIndex: 1 });
+    s.do(alex, { type: 'confirm-step', stepIndex: 2 });
+    s.do(robin, { type: 'confirm-step', stepIndex: 3 });
+    s.do(sam, { type: 'call-loading-complete' });
+    return s;
+  };
+
+  it('is refused until the set is tied off, and then no other set is called until it is corrected', () => {
+    // The rope lock limit is 50 lb (22.68 kg): common practice default, TRADE.md.
+    const s = unloaded();
+    expect(s.refused(jo, { type: 'record-test', result: 'pipe-heavy', estimateKg: 30 }).reason).toMatch(/more out of balance than the rope lock holds \(50 lb/);
+    const d = s.do(jo, { type: 'record-test', result: 'pipe-heavy', estimateKg: 30, tiedOff: true });
+    expect(d.entries[0].details).toMatchObject({ tiedOff: true, flagged: true });
+    expect(s.refused(jo, { type: 'call-move' }).reason).toMatch(/tied off out of balance/);
+    const fixed = s.do(jo, { type: 'record-test', result: 'balanced', lineSetId: s.state.lineSets[0].id });
+    expect(fixed.entries[0].details).toMatchObject({ tiedOff: false, untied: true, flagCleared: true });
+    s.do(jo, { type: 'call-move' });
+  });
+
+  it('within the rope lock needs no tie-off', () => {
+    const s = unloaded();
+    s.do(jo, { type: 'record-test', result: 'arbor-heavy', estimateKg: 5 });
+    expect(s.state.lineSets[0].tiedOff).toBe(false);
+  });
+});

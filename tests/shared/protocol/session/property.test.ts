@@ -92,6 +92,8 @@ function build(type: AnyAction['type'], c: Command, state: SessionState, actor: 
         type,
         result,
         estimateKg: result === 'balanced' ? undefined : c.estimateKg,
+        // Guided: the rail operator ties off a set that is out by more than the rope lock holds; unguided draws may forget.
+        tiedOff: guided ? result !== 'balanced' && c.estimateKg > (ls?.ropeLockLimitKg ?? 0) : c.role % 2 === 0,
         lineSetId: guided ? undefined : state.lineSets[c.lineSet % state.lineSets.length].id,
       };
     case 'call-hold':
@@ -196,6 +198,8 @@ describe('decide, under thousands of random actions from random people', () => {
             stats.stepsConfirmed += 1;
           }
           if (action.type === 'call-loading-complete' && ls) expect(nextWorkStepIndex(ls)).toBe(-1);
+          // A tie-off is never left unattended: no other set is called while one is tied off (TRADE.md).
+          if (action.type === 'call-move') expect(prev.lineSets.some((l) => l.tiedOff)).toBe(false);
           if (action.type === 'record-test') stats.tested += 1;
           if (action.type === 'call-hold') stats.holds += 1;
 
