@@ -104,7 +104,7 @@ export function createApp({ config, db, logger }: AppDeps): RailcallApp {
   }
   app.use(errorHandler(logger, config.jsonLimit));
 
-  io = createIo(httpServer, session.middleware, passport, [sessionSocketFeature(sessions, presence, logger)]);
+  io = createIo(httpServer, session.middleware, passport, [sessionSocketFeature(sessions, presence, logger)], config.sessionAbsoluteMs);
   // Broadcast only after commit; then set the session's re-alert timer from its new state.
   sessions.onCommitted((c) => {
     broadcastCommitted(io!, c);

@@ -17,7 +17,7 @@ export type RailcallSocket = Socket<ClientToServerEvents, ServerToClientEvents, 
 /** A feature that serves socket events registers its handlers through one of these. */
 export type SocketFeature = (io: RailcallServer, socket: RailcallSocket) => void;
 
-type EngineRequest = IncomingMessage & { _query: Record<string, string>; user?: SignedInUser; sessionID?: string };
+type EngineRequest = IncomingMessage & { _query: Record<string, string>; user?: SignedInUser; sessionID?: string; session?: { signedInAt?: number } };
 
 /** Session middleware runs on the handshake request only, not on every polling request. */
 function onlyForHandshake(middleware: RequestHandler) {
@@ -34,7 +34,7 @@ export const personRoom = (personId: number) => `person:${personId}`;
  * Socket.IO shares the Express sign-in (the documented pattern: express-session and passport
  * on the engine's handshake). A handshake without a signed-in person is refused with 401.
  */
-export function createIo(httpServer: HttpServer, session: RequestHandler, passport: PassportStatic, features: SocketFeature[]): RailcallServer {
+export function createIo(httpServer: HttpServer, session: RequestHandler, passport: PassportStatic, features: SocketFeature[], signInLifetimeMs = Infinity): RailcallServer {
   const io: RailcallServer = new Server(httpServer, { serveClient: false, maxHttpBufferSize: 64 * 1024 });
   io.engine.use(onlyForHandshake(session));
   io.engine.use(onlyForHandshake(passport.session() as RequestHandler));
@@ -57,6 +57,16 @@ export function createIo(httpServer: HttpServer, session: RequestHandler, passpo
       else next(new Error(`Unknown event: ${String(event).slice(0, 40)}`));
     });
     socket.on('error', () => {});
+    // A socket ends with its sign-in's absolute lifetime, however active it is.
+    const leftMs = signInLifetimeMs - (Date.now() - (req.session?.signedInAt ?? Date.now()));
+    if (Number.isFinite(leftMs)) {
+      const expiry = setTimeout(() => {
+        socket.emit('auth:signed-out');
+        socket.disconnect(true);
+      }, Math.max(0, Math.min(leftMs, 2 ** 31 - 1)));
+      expiry.unref();
+      socket.on('disconnect', () => clearTimeout(expiry));
+    }
     for (const feature of features) feature(io, socket);
   });
   return io;

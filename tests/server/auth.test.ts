@@ -3,6 +3,7 @@ import request from 'supertest';
 import { DEMO_PASSWORD } from '@shared/protocol/http';
 import { startTestApp, type TestApp } from '../support/app';
 import { cookieOf } from '../support/people';
+import { io as connect } from 'socket.io-client';
 
 describe('sign-in', () => {
   let t: TestApp;
@@ -101,13 +102,24 @@ describe('sign-in throttling', () => {
 
 describe('sign-in lifetime', () => {
   let t: TestApp;
-  beforeAll(async () => { t = await startTestApp({ config: (c) => ({ ...c, sessionAbsoluteMs: 50 }) }); });
+  beforeAll(async () => { t = await startTestApp({ config: (c) => ({ ...c, sessionAbsoluteMs: 300 }) }); });
   afterAll(async () => { await t.close(); });
+
+  it('closes a socket when its sign-in reaches the absolute lifetime', async () => {
+    const res = await request(t.url).post('/api/auth/sign-in').send({ email: 'deck@larkspur.example', password: DEMO_PASSWORD });
+    const socket = connect(t.url, { transports: ['websocket'], reconnection: false, forceNew: true, extraHeaders: { Cookie: cookieOf(res) } });
+    const told = new Promise((resolve) => socket.once('auth:signed-out', () => resolve(true)));
+    const closed = new Promise((resolve) => socket.once('disconnect', resolve));
+    await Promise.race([told, closed]);
+    expect(await told).toBe(true);
+    await closed;
+    socket.close();
+  });
 
   it('ends a sign-in after its absolute lifetime, however active', async () => {
     const res = await request(t.url).post('/api/auth/sign-in').send({ email: 'rail@larkspur.example', password: DEMO_PASSWORD });
     const cookie = cookieOf(res);
-    await new Promise((r) => setTimeout(r, 80));
+    await new Promise((r) => setTimeout(r, 350));
     const me = await request(t.url).get('/api/me').set('Cookie', cookie);
     expect(me.status).toBe(401);
     expect(me.body.error.message).toMatch(/expired/);
