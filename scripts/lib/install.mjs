@@ -23,7 +23,7 @@ export function ensureDebianPackages(names) {
   console.log(`[setup] installing Debian packages: ${missing.join(', ')}`);
   const env = { ...process.env, DEBIAN_FRONTEND: 'noninteractive' };
   run('apt-get', ['update', '-qq'], { env });
-  run('apt-get', ['install', '-y', '-qq', '--no-install-recommends', ...missing], { env });
+  run('apt-get', ['install', '-y', '-qq', ...missing], { env });
 }
 
 /** `npm ci` when node_modules is missing or older than the lock file. */
