@@ -5,7 +5,9 @@ import { DEMO_PASSWORD } from '@shared/protocol/http';
 import type { ClientToServerEvents, ServerToClientEvents } from '@shared/protocol/events';
 import type { Ack } from '@shared/protocol/ack';
 import type { LogEntry, SessionAction, SessionState } from '@shared/protocol/session';
+import { afterAll, beforeAll } from 'vitest';
 import { cookieOf } from './people';
+import { startTestApp, type TestApp } from './app';
 
 type PhoneSocket = Socket<ServerToClientEvents, ClientToServerEvents>;
 export type ActAnswer = Ack<{ seq: number; state: SessionState }>;
@@ -129,4 +131,26 @@ export async function openDrapeUnload(url: string, railCookie: string): Promise<
   });
   if (res.status !== 201) throw new Error(`opening the session failed: ${res.status} ${JSON.stringify(res.body)}`);
   return { sessionId: res.body.session.id, state: res.body.state };
+}
+
+export type Crew = Awaited<ReturnType<typeof demoCrew>>;
+
+/**
+ * Inside a `describe`: a fresh app and database, the demo crew signed in on their phones, and a
+ * session open to unload line set 7. Read the fields inside tests (they are set in beforeAll).
+ */
+export function drapeUnloadFixture(opts: { watch?: boolean; before?: (t: TestApp) => Promise<void> } = {}) {
+  const ctx = {} as { t: TestApp; crew: Crew; sessionId: number };
+  beforeAll(async () => {
+    ctx.t = await startTestApp();
+    await opts.before?.(ctx.t);
+    ctx.crew = await demoCrew(ctx.t.url);
+    ({ sessionId: ctx.sessionId } = await openDrapeUnload(ctx.t.url, ctx.crew.rail.cookie));
+    if (opts.watch) for (const phone of ctx.crew.all) await phone.watch(ctx.sessionId);
+  });
+  afterAll(async () => {
+    ctx.crew?.all.forEach((p) => p.close());
+    await ctx.t?.close();
+  });
+  return ctx;
 }

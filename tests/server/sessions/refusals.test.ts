@@ -2,7 +2,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import request from 'supertest';
 import { randomUUID } from 'node:crypto';
 import { startTestApp, type TestApp } from '../../support/app';
-import { demoCrew, openDrapeUnload, Phone } from '../../support/crew';
+import { demoCrew, drapeUnloadFixture, openDrapeUnload, Phone } from '../../support/crew';
 import { addVenueWithPeople } from '../../support/people';
 import type { SessionAction } from '@shared/protocol/session';
 
@@ -147,20 +147,10 @@ describe('the session refuses what is out of order', () => {
 });
 
 describe('ending a session early', () => {
-  let t: TestApp;
-  let crew: Awaited<ReturnType<typeof demoCrew>>;
-  let sessionId: number;
-  beforeAll(async () => {
-    t = await startTestApp();
-    crew = await demoCrew(t.url);
-    ({ sessionId } = await openDrapeUnload(t.url, crew.rail.cookie));
-  });
-  afterAll(async () => {
-    crew.all.forEach((p) => p.close());
-    await t.close();
-  });
+  const f = drapeUnloadFixture();
 
   it('writes the half-done load back to the schedule and flags the set, whose balance nobody tested', async () => {
+    const { t, crew, sessionId } = f;
     const go = (phone: Phone, action: SessionAction) => phone.must(sessionId, action);
     await go(crew.rail, { type: 'join', role: 'rail' });
     await go(crew.loader1, { type: 'join', role: 'loader' });

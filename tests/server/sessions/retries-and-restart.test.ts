@@ -2,7 +2,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import request from 'supertest';
 import { randomUUID } from 'node:crypto';
 import { startTestApp, type TestApp } from '../../support/app';
-import { demoCrew, openDrapeUnload, type Phone } from '../../support/crew';
+import { demoCrew, drapeUnloadFixture, openDrapeUnload, type Phone } from '../../support/crew';
 import { verifyChain } from '../../../server/features/sessions/hash-chain';
 import type { SessionAction } from '@shared/protocol/session';
 
@@ -118,20 +118,10 @@ describe('retries, races and a restart mid-session', () => {
 });
 
 describe('action keys belong to their first use', () => {
-  let t: TestApp;
-  let crew: Awaited<ReturnType<typeof demoCrew>>;
-  let sessionId: number;
-  beforeAll(async () => {
-    t = await startTestApp();
-    crew = await demoCrew(t.url);
-    ({ sessionId } = await openDrapeUnload(t.url, crew.rail.cookie));
-  });
-  afterAll(async () => {
-    crew.all.forEach((p) => p.close());
-    await t.close();
-  });
+  const f = drapeUnloadFixture();
 
   it('refuses the same key from another person, or for another action, and tells keys apart by case', async () => {
+    const { crew, sessionId } = f;
     const key = 'Key-of-the-rail-1';
     expect((await crew.rail.act(sessionId, { type: 'join', role: 'rail' }, key)).ok).toBe(true);
     expect(await crew.deck.act(sessionId, { type: 'join', role: 'deck' }, key)).toMatchObject({ ok: false, error: { code: 'conflict' } });
@@ -141,21 +131,10 @@ describe('action keys belong to their first use', () => {
 });
 
 describe('a person whose roles are taken away', () => {
-  let t: TestApp;
-  let crew: Awaited<ReturnType<typeof demoCrew>>;
-  let sessionId: number;
-  beforeAll(async () => {
-    t = await startTestApp();
-    crew = await demoCrew(t.url);
-    ({ sessionId } = await openDrapeUnload(t.url, crew.rail.cookie));
-    for (const phone of crew.all) await phone.watch(sessionId);
-  });
-  afterAll(async () => {
-    crew.all.forEach((p) => p.close());
-    await t.close();
-  });
+  const f = drapeUnloadFixture({ watch: true });
 
   it('stops receiving the session on the phone already open, and cannot watch it again', async () => {
+    const { t, crew, sessionId } = f;
     const [deck] = await t.database.owner.query("SELECT id FROM person WHERE email = 'deck@larkspur.example'");
     const admin = await request.agent(t.url);
     await admin.post('/api/auth/sign-in').send({ email: 'td@larkspur.example', password: 'larkspur-demo' });
