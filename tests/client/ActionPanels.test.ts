@@ -2,7 +2,7 @@ import { afterEach, describe, expect, it } from 'vitest';
 import { mount, type VueWrapper } from '@vue/test-utils';
 import { Quasar } from 'quasar';
 import type { Component } from 'vue';
-import type { SessionState } from '@shared/protocol/session';
+import { SYSTEM_ACTOR, type SessionState } from '@shared/protocol/session';
 import RailActionPanel from '@/components/session/RailActionPanel.vue';
 import LoaderActionPanel from '@/components/session/LoaderActionPanel.vue';
 import DeckActionPanel from '@/components/session/DeckActionPanel.vue';
@@ -83,6 +83,10 @@ describe('RailActionPanel', () => {
     ]);
     expect(button(w, 'confirm-locked').exists()).toBe(false);
     expect(w.get('[data-testid="next-text"]').text()).toContain('Robin Ashby must answer "clear"');
+
+    // After the venue's re-alert time Railcall alerts the silent person again; the caller sees it flagged.
+    await w.setProps({ state: play(calledDeckSilent(), [SYSTEM_ACTOR, { type: 're-alert', personIds: [robin.personId] }]) });
+    expect(w.get('[data-testid="re-alerted"]').text()).toContain('alerted again 1×');
 
     await w.setProps({ state: play(calledDeckSilent(), [robin, { type: 'answer-clear' }]) });
     expect(button(w, 'confirm-locked').text()).toBe('Line set 7 is in and locked');

@@ -6,7 +6,7 @@ import {
   createSessionState,
   decide,
   type Actor,
-  type SessionAction,
+  type AnyAction,
   type SessionState,
 } from '@shared/protocol/session';
 import type { BrickType, LineSetLoad, PlanStep } from '@shared/rigging';
@@ -61,7 +61,7 @@ export function newSession(): SessionState {
 }
 
 /** Applies actions in order; throws on a refusal so a fixture never silently stalls. */
-export function play(state: SessionState, ...moves: Array<[Actor, SessionAction]>): SessionState {
+export function play(state: SessionState, ...moves: Array<[Actor, AnyAction]>): SessionState {
   let now = 1_000;
   for (const [actor, action] of moves) {
     const decision = decide(state, action, actor, (now += 1000));
