@@ -1,6 +1,7 @@
 // `npm test`: installs what is missing, starts a throwaway MariaDB, runs Vitest then Playwright,
 // stops MariaDB and prints `tests: N passed, N failed` (the sum of both runners).
-// Node built-ins only until `npm ci` has run. RAILCALL_TEST_ONLY=unit|e2e runs one runner.
+// Node built-ins only until `npm ci` has run. RAILCALL_TEST_ONLY=unit|e2e runs one runner; file filters
+// after `--` go to that runner (`RAILCALL_TEST_ONLY=unit npm test -- tests/server/people.test.ts`).
 import { spawn } from 'node:child_process';
 import { existsSync, mkdirSync, mkdtempSync, readFileSync, rmSync } from 'node:fs';
 import { randomBytes } from 'node:crypto';
@@ -14,6 +15,11 @@ const root = join(dirname(fileURLToPath(import.meta.url)), '..');
 const only = process.env.RAILCALL_TEST_ONLY;
 const bin = (name) => join(root, 'node_modules', '.bin', name);
 const reportDir = join(root, '.data', 'test-reports');
+const filters = process.argv.slice(2);
+if (filters.length > 0 && only !== 'unit' && only !== 'e2e') {
+  console.error('[test] file filters need RAILCALL_TEST_ONLY=unit or =e2e');
+  process.exit(2);
+}
 
 ensureDebianPackages(['mariadb-server', 'chromium']);
 ensureNodeModules(root);
@@ -63,7 +69,7 @@ try {
 
   if (only !== 'e2e') {
     const file = join(reportDir, 'vitest.json');
-    const status = await run('unit and API tests (Vitest)', bin('vitest'), ['run', '--reporter=default', '--reporter=json', `--outputFile.json=${file}`], env);
+    const status = await run('unit and API tests (Vitest)', bin('vitest'), ['run', '--reporter=default', '--reporter=json', `--outputFile.json=${file}`, ...filters], env);
     const report = readJson(file);
     if (report) {
       totals.passed += report.numPassedTests;
@@ -80,7 +86,7 @@ try {
     if (built !== 0) { totals.failed += 1; exitCode = 1; }
     const file = join(reportDir, 'playwright.json');
     const status = built !== 0 ? 1 : await run('end-to-end tests (Playwright, Debian chromium)', bin('playwright'),
-      ['test', '-c', 'e2e/playwright.config.ts', '--reporter=list,json'], { ...env, PLAYWRIGHT_JSON_OUTPUT_NAME: file });
+      ['test', '-c', 'e2e/playwright.config.ts', '--reporter=list,json', ...filters], { ...env, PLAYWRIGHT_JSON_OUTPUT_NAME: file });
     const report = readJson(file);
     if (report) {
       totals.passed += report.stats.expected + report.stats.flaky;
