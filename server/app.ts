@@ -17,6 +17,8 @@ import { PeopleService } from './features/people/people.service';
 import { peopleRoutes } from './features/people/people.routes';
 import { ScheduleService } from './features/schedule/schedule.service';
 import { scheduleRoutes } from './features/schedule/schedule.routes';
+import { PracticeService } from './features/practice/practice.service';
+import { practiceRoutes } from './features/practice/practice.routes';
 import { createIo, endSignIn, type RailcallServer } from './realtime/io';
 import { SessionsService } from './features/sessions/sessions.service';
 import { sessionRoutes } from './features/sessions/sessions.routes';
@@ -67,6 +69,7 @@ export function createApp({ config, db, logger }: AppDeps): RailcallApp {
     ...peopleRoutes(people, (personId) => io && stopWatching(io, personId)),
     ...scheduleRoutes(schedule),
     ...sessionRoutes(sessions, presence),
+    ...practiceRoutes(new PracticeService(db, schedule)),
   ];
 
   app.disable('x-powered-by');

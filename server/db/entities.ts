@@ -4,6 +4,7 @@ import { VenueRole } from '../features/people/venue-role.entity';
 import { BrickTypeRow } from '../features/schedule/brick-type.entity';
 import { LineSetRow } from '../features/schedule/line-set.entity';
 import { PieceRow } from '../features/schedule/piece.entity';
+import { PracticeRunRow } from '../features/practice/practice.entity';
 import { ActionKeyRow, LoadingSessionRow, SessionEventRow } from '../features/sessions/session.entity';
 
-export const entities = [Venue, Person, VenueRole, BrickTypeRow, LineSetRow, PieceRow, LoadingSessionRow, SessionEventRow, ActionKeyRow];
+export const entities = [Venue, Person, VenueRole, BrickTypeRow, LineSetRow, PieceRow, LoadingSessionRow, SessionEventRow, ActionKeyRow, PracticeRunRow];

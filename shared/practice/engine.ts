@@ -58,9 +58,6 @@ export function practiceSentence(entry: PracticeEntry, state?: SessionState, uni
   return PRACTICE_PREFIX + describeEntry(entry, state, units);
 }
 
-/** The longest practice the server keeps (taps), so one upload stays small. */
-export const MAX_PRACTICE_TAPS = 3000;
-
 function actorOf(people: readonly PracticePerson[], personId: number) {
   if (personId === SYSTEM_ACTOR.personId) return SYSTEM_ACTOR;
   const person = people.find((p) => p.personId === personId);
@@ -220,4 +217,30 @@ export class PracticeEngine {
   get endedAtMs(): number | null {
     return this.state.endedAtMs ?? this.stoppedAtMs;
   }
+}
+
+/**
+ * What is wrong with a practice's taps as a phone sent them, or null: taps in time order, only by the
+ * practice's own people, and Railcall's re-alerts only when one was due. The rules themselves then
+ * decide every tap again (a refused tap is kept as refused, like a real one).
+ */
+export function practiceTapProblem(setup: PracticeSetup, taps: readonly PracticeTap[]): string | null {
+  const people = practiceCrew(setup.you, setup.role);
+  let state = createSessionState(setup.session);
+  let lastMs = taps[0]?.atMs ?? 0;
+  for (const [i, tap] of taps.entries()) {
+    const where = `Tap ${i + 1}`;
+    if (tap.atMs < lastMs) return `${where} is earlier than the one before it.`;
+    lastMs = tap.atMs;
+    if (tap.personId === SYSTEM_ACTOR.personId) {
+      if (tap.action.type !== 're-alert') return `${where}: Railcall itself only re-alerts.`;
+      const due = new Set(silentSince(state, tap.atMs).filter((p) => p.due).map((p) => p.personId));
+      if (!tap.action.personIds.every((id) => due.has(id))) return `${where}: a re-alert before it was due.`;
+    } else {
+      if (!people.some((p) => p.personId === tap.personId)) return `${where}: nobody with that id takes part in this practice.`;
+      if (tap.action.type === 're-alert') return `${where}: only Railcall re-alerts.`;
+    }
+    state = applyPracticeTap(state, tap, people, 1).state;
+  }
+  return null;
 }

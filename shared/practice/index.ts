@@ -4,3 +4,4 @@ export * from './engine';
 export * from './crew';
 export * from './debrief';
 export { seededRandom, humanDelayMs, type Random } from './random';
+export { inventedLineSet } from './invented';

@@ -11,7 +11,9 @@ export interface Random {
 }
 
 export function seededRandom(seed: number): Random {
-  const rng = xoroshiro128plus(seed | 0);
+  // Neighbouring small seeds start alike in xoroshiro: spread the seed, then skip the first draws.
+  const rng = xoroshiro128plus(Math.imul((seed | 0) ^ 0x2545f491, 0x9e3779b1));
+  for (let i = 0; i < 8; i += 1) uniformFloat64(rng);
   return { next: () => uniformFloat64(rng) };
 }
 

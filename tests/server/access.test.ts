@@ -64,6 +64,16 @@ const TABLE: Record<string, Case> = {
   },
   'get /sessions/:id/events': { allowed: EVERYONE, okStatus: 200, send: (a, c) => a.get(`/api/sessions/${c.sessionId}/events?after=0`) },
   'get /sessions/:id/record': { allowed: EVERYONE, okStatus: 200, send: (a, c) => a.get(`/api/sessions/${c.sessionId}/record`) },
+  'post /practice-runs': {
+    allowed: EVERYONE, okStatus: 201,
+    send: (a) => a.post('/api/practice-runs').send({ role: 'loader', source: { kind: 'invented' } }),
+  },
+  'put /practice-runs/:id/result': {
+    allowed: EVERYONE, okStatus: 404, // nobody's practice has this id
+    send: (a) => a.put('/api/practice-runs/999999/result').send({ taps: [{ atMs: Date.now(), personId: 1, action: { type: 'answer-clear' } }], endedAtMs: Date.now() }),
+  },
+  'get /practice-runs': { allowed: EVERYONE, okStatus: 200, send: (a) => a.get('/api/practice-runs') },
+  'get /practice-runs/:id': { allowed: EVERYONE, okStatus: 404, send: (a) => a.get('/api/practice-runs/999999') },
 };
 
 describe('API access by role and venue', () => {
