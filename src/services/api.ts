@@ -1,4 +1,5 @@
 import type { AddPersonInput, AddPersonResult, Me, PersonRow, SignInInput } from '@shared/protocol/people';
+import type { FinishPracticeInput, PracticeDetail, PracticeStart, PracticeSummary, StartPracticeInput } from '@shared/protocol/practice';
 import type { Role } from '@shared/protocol/roles';
 import type { ScheduleView } from '@shared/protocol/schedule';
 import type { CreateSessionInput, PresenceEntry, SessionSummary } from '@shared/protocol/sessions-api';
@@ -54,3 +55,11 @@ export const getSession = (id: number) => http.get<SessionSnapshot>(`/api/sessio
 /** Log entries after `afterSeq`, for catching up when the live connection cannot. */
 export const getSessionEvents = (id: number, afterSeq: number) =>
   http.get<{ entries: LogEntry[]; lastSeq: number }>(`/api/sessions/${id}/events`, { query: { after: afterSeq } });
+
+export const startPractice = (input: StartPracticeInput) => http.post<PracticeStart>('/api/practice-runs', input);
+export const keepPractice = (id: number, input: FinishPracticeInput) => http.put<PracticeDetail>(`/api/practice-runs/${id}/result`, input);
+export async function listPractices(personId?: number): Promise<PracticeSummary[]> {
+  const answer = await http.get<{ practices: PracticeSummary[] }>('/api/practice-runs', personId ? { query: { personId } } : {});
+  return answer.practices;
+}
+export const getPractice = (id: number) => http.get<PracticeDetail>(`/api/practice-runs/${id}`);
