@@ -1,6 +1,6 @@
 import { createServer, type Server as HttpServer } from 'node:http';
 import { existsSync } from 'node:fs';
-import { resolve } from 'node:path';
+import { basename, resolve } from 'node:path';
 import express, { type Express } from 'express';
 import helmet from 'helmet';
 import type { DataSource } from 'typeorm';
@@ -10,6 +10,9 @@ import { createSessionMiddleware } from './middleware/session';
 import { apiNotFound, errorHandler } from './middleware/error-handler';
 import { mountRoutes, type RouteSpec } from './middleware/routes';
 import { HttpError } from './middleware/http-error';
+
+/** Client files a phone must revalidate on every load (see the static files below). */
+const ALWAYS_FRESH = new Set(['sw.js', 'manifest.webmanifest', 'index.html']);
 import { createPassport } from './features/auth/passport';
 import { signInThrottles } from './features/auth/throttle';
 import { authRoutes } from './features/auth/auth.routes';
@@ -101,9 +104,17 @@ export function createApp({ config, db, logger }: AppDeps): RailcallApp {
 
   const clientDir = config.clientDir ? resolve(config.clientDir) : null;
   if (clientDir && existsSync(resolve(clientDir, 'index.html'))) {
-    app.use(express.static(clientDir, { index: false, maxAge: '1h' }));
+    app.use(express.static(clientDir, {
+      index: false,
+      maxAge: '1h',
+      // The service worker, the manifest and the page must be asked for fresh every time, or a phone
+      // keeps an old app shell for an hour after an update (hashed assets can be cached).
+      setHeaders: (res, path) => {
+        if (ALWAYS_FRESH.has(basename(path))) res.setHeader('Cache-Control', 'no-cache');
+      },
+    }));
     // The client routes its own paths: every other GET gets the app.
-    app.get('/{*splat}', (_req, res) => res.sendFile(resolve(clientDir, 'index.html')));
+    app.get('/{*splat}', (_req, res) => res.sendFile(resolve(clientDir, 'index.html'), { headers: { 'Cache-Control': 'no-cache' } }));
   }
   app.use(errorHandler(logger, config.jsonLimit));
 

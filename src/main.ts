@@ -3,6 +3,7 @@ import App from './App.vue';
 import { bootQuasar } from './boot/quasar';
 import { bootPinia } from './boot/pinia';
 import { bootRouter } from './boot/router';
+import { bootInstallableApp } from './boot/pwa';
 import './boot/font';
 import './css/app.css';
 import { useAuthStore } from './stores/auth';
@@ -17,6 +18,7 @@ async function start(): Promise<void> {
   await useAuthStore().load().catch(() => undefined);
   bootRouter(app);
   app.mount('#app');
+  bootInstallableApp();
 }
 
 void start();

@@ -3,6 +3,8 @@ import { computed, ref } from 'vue';
 import type { Me, SignInInput } from '@shared/protocol/people';
 import type { Role } from '@shared/protocol/roles';
 import * as api from '@/services/api';
+import { ApiFailure } from '@/services/http';
+import { forgetEverything, loadMe, saveMe } from '@/services/offlineCache';
 import { socket } from '@/services/socket';
 import { homeFor, orderedRoles, roleHomesFor } from '@/router/access';
 import { useConnectionStore } from './connection';
@@ -10,6 +12,8 @@ import { useConnectionStore } from './connection';
 /** Who is signed in, and the sign-in and sign-out steps. */
 export const useAuthStore = defineStore('auth', () => {
   const me = ref<Me | null>(null);
+  /** True when `me` comes from this phone's own copy because the server could not be reached. */
+  const fromCache = ref(false);
   /** True once the first `/api/me` answer (or failure) is in. */
   const loaded = ref(false);
   const connection = useConnectionStore();
@@ -27,6 +31,8 @@ export const useAuthStore = defineStore('auth', () => {
 
   function become(person: Me | null): void {
     me.value = person;
+    fromCache.value = false;
+    if (person) void saveMe(person);
     if (person) connection.start();
     else connection.stop();
   }
@@ -35,6 +41,13 @@ export const useAuthStore = defineStore('auth', () => {
   async function load(): Promise<Me | null> {
     try {
       become(await api.getMeOrNull());
+    } catch (error) {
+      // No signal: open as the person last signed in on this phone; the server checks again on reconnect.
+      const cached = error instanceof ApiFailure && error.code === 'network' ? await loadMe() : null;
+      if (!cached) throw error;
+      me.value = cached;
+      fromCache.value = true;
+      connection.start();
     } finally {
       loaded.value = true;
     }
@@ -61,15 +74,23 @@ export const useAuthStore = defineStore('auth', () => {
     } finally {
       // Even if the server is unreachable, this device forgets the person.
       become(null);
+      await forgetEverything();
     }
   }
 
   // Signed out elsewhere (another tab, or an admin): the server says so before it disconnects.
-  socket.on('auth:signed-out', () => become(null));
+  socket.on('auth:signed-out', () => {
+    become(null);
+    void forgetEverything();
+  });
   // The server refused the live connection (e.g. the session expired): check who we still are.
+  // Back online after opening from the cache: ask who we are for real.
+  socket.on('connect', () => {
+    if (fromCache.value) void load().catch(() => undefined);
+  });
   socket.on('connect_error', () => {
     if (!socket.active && me.value) void load().catch(() => undefined);
   });
 
-  return { me, loaded, signedIn, roles, homeRoute, roleHomes, hasRole, load, signIn, acceptInvite, signOut };
+  return { me, fromCache, loaded, signedIn, roles, homeRoute, roleHomes, hasRole, load, signIn, acceptInvite, signOut };
 });

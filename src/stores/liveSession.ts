@@ -1,5 +1,5 @@
 import { defineStore } from 'pinia';
-import { computed, ref, shallowRef } from 'vue';
+import { computed, ref, shallowRef, toRaw } from 'vue';
 import { Notify } from 'quasar';
 import type { Ack } from '@shared/protocol/ack';
 import type { PresenceEntry, SessionSummary } from '@shared/protocol/sessions-api';
@@ -13,7 +13,8 @@ import {
   type SessionWatchResult,
 } from '@shared/protocol/session';
 import * as api from '@/services/api';
-import { failureMessage } from '@/services/http';
+import { ApiFailure, failureMessage } from '@/services/http';
+import { dropTap, loadSession, loadTaps, saveSession, saveTap } from '@/services/offlineCache';
 import { socket } from '@/services/socket';
 import { makeActionKey } from '@/utils/actionKey';
 import { useAuthStore } from './auth';
@@ -26,6 +27,12 @@ const ACK_TIMEOUT_MS = 8000;
 
 /** How long a phone waits before sending an unanswered tap again. */
 const RETRY_MS = 1000;
+
+/**
+ * A tap kept on the phone across a reload is sent when the signal is back, but not once it is this
+ * old: a "clear" given ten minutes ago says nothing about where the person stands now.
+ */
+export const SAVED_TAP_MAX_AGE_MS = 10 * 60_000;
 
 /** One tap on its way to the server. The key is made once, at the tap, and kept for every retry. */
 export interface PendingAction {
@@ -84,6 +91,8 @@ export const useLiveSessionStore = defineStore('liveSession', () => {
   const alertElsewhere = ref<(SessionAlert & { receivedAtMs: number }) | null>(null);
   /** The last refusal, in the server's words (also shown as a notice). */
   const lastRefusal = ref<string | null>(null);
+  /** Set while the screen shows this phone's own copy of the session (no signal): when it was saved. */
+  const cachedAtMs = ref<number | null>(null);
 
   const lastSeq = computed(() => contiguousSeq(entries.value));
   const myId = computed(() => auth.me?.id ?? 0);
@@ -101,15 +110,40 @@ export const useLiveSessionStore = defineStore('liveSession', () => {
     retries.add(timer);
   }
 
+  let saveTimer: ReturnType<typeof setTimeout> | null = null;
+  /** Keeps this phone's copy of the session, a moment after the last change (for opening without a signal). */
+  function saveSoon(): void {
+    if (saveTimer) clearTimeout(saveTimer);
+    saveTimer = setTimeout(() => {
+      saveTimer = null;
+      const id = sessionId.value;
+      if (id === null || !state.value || cachedAtMs.value !== null) return;
+      void saveSession({
+        sessionId: id,
+        personId: myId.value,
+        summary: structuredClone(toRaw(summary.value)),
+        state: structuredClone(toRaw(state.value)),
+        stateSeq: stateSeq.value,
+        entries: structuredClone(toRaw(entries.value)),
+        presence: structuredClone(toRaw(presence.value)),
+        savedAtMs: Date.now(),
+      });
+    }, 300);
+  }
+
   function takeState(next: SessionState, seq: number): void {
     if (seq >= stateSeq.value) {
       state.value = next;
       stateSeq.value = seq;
+      saveSoon();
     }
   }
 
   function take(incoming: readonly LogEntry[]): void {
-    if (incoming.length) entries.value = mergeEntries(entries.value, incoming);
+    if (incoming.length) {
+      entries.value = mergeEntries(entries.value, incoming);
+      saveSoon();
+    }
   }
 
   function reset(): void {
@@ -123,6 +157,7 @@ export const useLiveSessionStore = defineStore('liveSession', () => {
     alert.value = null;
     lastRefusal.value = null;
     loadError.value = null;
+    cachedAtMs.value = null;
     for (const pending of outbox.value) settle.get(pending.envelope.key)?.({ ok: false, code: 'closed', message: 'The session was closed on this phone.' });
     outbox.value = [];
     settle.clear();
@@ -137,6 +172,7 @@ export const useLiveSessionStore = defineStore('liveSession', () => {
     const from = lastSeq.value;
     const [snapshot, events] = await Promise.all([api.getSession(id), api.getSessionEvents(id, from)]);
     if (sessionId.value !== id) return;
+    cachedAtMs.value = null;
     summary.value = snapshot.session;
     presence.value = snapshot.presence;
     take(events.entries);
@@ -158,6 +194,7 @@ export const useLiveSessionStore = defineStore('liveSession', () => {
         return;
       }
       watching.value = true;
+      cachedAtMs.value = null;
       take(res.entries);
       takeState(res.state, res.lastSeq);
       if (res.presence) presence.value = res.presence;
@@ -182,14 +219,52 @@ export const useLiveSessionStore = defineStore('liveSession', () => {
       summary.value = snapshot.session;
       presence.value = snapshot.presence;
       const events = await api.getSessionEvents(id, lastSeq.value);
+      cachedAtMs.value = null;
       take(events.entries);
       takeState(snapshot.state, Math.max(snapshot.lastSeq, 0));
+      await requeueSavedTaps(id);
       watch();
     } catch (error) {
+      // No signal: show the session as this phone last saw it, marked with its age.
+      if (error instanceof ApiFailure && error.code === 'network' && (await openFromCache(id))) return;
       loadError.value = failureMessage(error);
       throw error;
     } finally {
       loading.value = false;
+    }
+  }
+
+  async function openFromCache(id: number): Promise<boolean> {
+    const saved = await loadSession(myId.value, id);
+    if (!saved || sessionId.value !== id) return false;
+    summary.value = saved.summary;
+    presence.value = saved.presence;
+    entries.value = saved.entries;
+    state.value = saved.state;
+    stateSeq.value = saved.stateSeq;
+    cachedAtMs.value = saved.savedAtMs;
+    loadError.value = null;
+    await requeueSavedTaps(id);
+    return true;
+  }
+
+  /** Taps saved on this phone before a reload go out again with their own keys: the server answers each once. */
+  async function requeueSavedTaps(id: number): Promise<void> {
+    const saved = await loadTaps(myId.value, id);
+    let stale = 0;
+    for (const tap of saved) {
+      if (sessionId.value !== id || outbox.value.some((p) => p.envelope.key === tap.key)) continue;
+      if (Date.now() - tap.envelope.clientTimeMs > SAVED_TAP_MAX_AGE_MS) {
+        stale += 1;
+        void dropTap(tap.key);
+        continue;
+      }
+      const pending: PendingAction = { sessionId: id, envelope: tap.envelope, inFlight: false };
+      outbox.value = [...outbox.value, pending];
+      send(outbox.value[outbox.value.length - 1]);
+    }
+    if (stale) {
+      Notify.create({ type: 'warning', message: `${stale} ${stale === 1 ? 'tap' : 'taps'} saved on this phone more than 10 minutes ago ${stale === 1 ? 'was' : 'were'} not sent: tap again if still needed.`, timeout: 8000 });
     }
   }
 
@@ -221,6 +296,7 @@ export const useLiveSessionStore = defineStore('liveSession', () => {
         return;
       }
       outbox.value = outbox.value.filter((p) => p !== pending);
+      void dropTap(pending.envelope.key);
       const done = settle.get(pending.envelope.key);
       settle.delete(pending.envelope.key);
       if (res.ok) {
@@ -253,6 +329,8 @@ export const useLiveSessionStore = defineStore('liveSession', () => {
     const envelope: ActionEnvelope = { key: makeActionKey(), clientTimeMs: Date.now(), action };
     const pending: PendingAction = { sessionId: id, envelope, inFlight: false };
     outbox.value = [...outbox.value, pending];
+    // Kept on the phone until answered, so a reload without a signal does not lose it.
+    void saveTap({ key: envelope.key, sessionId: id, personId: myId.value, envelope: structuredClone(envelope) });
     const result = new Promise<ActResult>((resolve) => settle.set(envelope.key, resolve));
     // Send the reactive copy, so `inFlight` shows on screen.
     send(outbox.value[outbox.value.length - 1]);
@@ -310,6 +388,7 @@ export const useLiveSessionStore = defineStore('liveSession', () => {
     alert,
     alertElsewhere,
     lastRefusal,
+    cachedAtMs,
     lastSeq,
     myId,
     me,
