@@ -46,6 +46,11 @@ test('the manifest is valid, its icons are drawn to size, and the service worker
   }
 
   await controlledByServiceWorker(page);
+  // Chromium's own verdict, the one behind its "Install app" menu item (DevTools protocol).
+  const cdp = await phone.context.newCDPSession(page);
+  const { installabilityErrors } = await cdp.send('Page.getInstallabilityErrors');
+  // A Playwright context is a private window, where Chromium never installs anything: that one is the test's, not the app's.
+  expect(installabilityErrors.filter((e) => e.errorId !== 'in-incognito')).toEqual([]);
   const sw = await page.request.get('/sw.js');
   expect(sw.headers()['cache-control']).toBe('no-cache');
 
