@@ -131,6 +131,8 @@ function dutyMs(action: SessionAction, state: SessionState): number {
 export class SimulatedCrew {
   private readonly random: Random;
   private readonly intents = new Map<number, Intent | null>();
+  /** The situation each member last acted in: if nothing changed after, they do not tap the same again. */
+  private readonly actedIn = new Map<number, string>();
   private holdCalled = false;
 
   constructor(
@@ -162,6 +164,11 @@ export class SimulatedCrew {
       }
       const situation = situationOf(state, member, main);
       if (this.intents.get(member.personId)?.situation === situation) continue;
+      // Their tap changed nothing (refused, say): like a person, they wait for something to happen.
+      if (this.actedIn.get(member.personId) === situation) {
+        this.intents.set(member.personId, null);
+        continue;
+      }
       this.intents.set(member.personId, this.intend(state, member, main, situation, nowMs));
     }
   }
@@ -226,6 +233,7 @@ export class SimulatedCrew {
       delete intent.slip;
       delete intent.slipDueMs;
     } else {
+      this.actedIn.set(best.member.personId, intent.situation);
       this.intents.set(best.member.personId, null);
     }
     return { member: best.member, action: best.action, atMs: best.atMs };

@@ -42,5 +42,6 @@ export function practiceCrew(you: { personId: number; name: string }, role: Prac
  */
 export function balancedWithinKg(brickTypes: readonly BrickType[]): number {
   const lightest = Math.min(...brickTypes.map((b) => b.massKg));
-  return Number.isFinite(lightest) ? lightest / 2 : 0.5;
+  // A milligram of slack: a remainder of exactly half a brick (5 lb with 10 lb bricks) counts as balanced.
+  return (Number.isFinite(lightest) ? lightest / 2 : 0.5) + 1e-6;
 }
