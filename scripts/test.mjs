@@ -21,7 +21,7 @@ if (filters.length > 0 && only !== 'unit' && only !== 'e2e') {
   process.exit(2);
 }
 
-ensureDebianPackages(['mariadb-server', 'chromium']);
+ensureDebianPackages(['mariadb-server', 'chromium', 'poppler-utils']);
 ensureNodeModules(root);
 rmSync(reportDir, { recursive: true, force: true });
 mkdirSync(reportDir, { recursive: true });

@@ -22,6 +22,8 @@ import { ScheduleService } from './features/schedule/schedule.service';
 import { scheduleRoutes } from './features/schedule/schedule.routes';
 import { PracticeService } from './features/practice/practice.service';
 import { practiceRoutes } from './features/practice/practice.routes';
+import { RecordService } from './features/record/record.service';
+import { recordRoutes } from './features/record/record.routes';
 import { createIo, endSignIn, type RailcallServer } from './realtime/io';
 import { SessionsService } from './features/sessions/sessions.service';
 import { sessionRoutes } from './features/sessions/sessions.routes';
@@ -73,6 +75,7 @@ export function createApp({ config, db, logger }: AppDeps): RailcallApp {
     ...scheduleRoutes(schedule),
     ...sessionRoutes(sessions, presence),
     ...practiceRoutes(new PracticeService(db, schedule)),
+    ...recordRoutes(new RecordService(db)),
   ];
 
   app.disable('x-powered-by');
@@ -89,6 +92,8 @@ export function createApp({ config, db, logger }: AppDeps): RailcallApp {
     },
     strictTransportSecurity: config.production,
   }));
+  // An exported record to check can be large; everything else keeps the small limit.
+  app.use('/api/record/verify', express.json({ limit: '20mb' }));
   app.use('/api', express.json({ limit: config.jsonLimit }));
   app.use('/api', session.middleware, passport.session());
   app.use('/api', (req, _res, next) => {

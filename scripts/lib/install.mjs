@@ -7,6 +7,8 @@ import { join } from 'node:path';
 const DEBIAN_PACKAGES = {
   'mariadb-server': '/usr/sbin/mariadbd',
   chromium: '/usr/bin/chromium',
+  // pdftotext reads the session report's PDF back in the tests.
+  'poppler-utils': '/usr/bin/pdftotext',
 };
 
 function run(cmd, args, opts = {}) {

@@ -15,6 +15,8 @@ interface Ctx {
   sessionId: number;
   /** A line set no session holds yet, for each session opened here. */
   freeLineSet(): number;
+  /** A line set of the venue (the one the watched session holds). */
+  lineSetId: number;
   who: Who;
 }
 interface Case {
@@ -74,6 +76,16 @@ const TABLE: Record<string, Case> = {
   },
   'get /practice-runs': { allowed: EVERYONE, okStatus: 200, send: (a) => a.get('/api/practice-runs') },
   'get /practice-runs/:id': { allowed: EVERYONE, okStatus: 404, send: (a) => a.get('/api/practice-runs/999999') },
+  'get /record/sessions': { allowed: EVERYONE, okStatus: 200, send: (a) => a.get('/api/record/sessions?from=2026-01-01') },
+  'get /record/sessions/:id/report': { allowed: EVERYONE, okStatus: 200, send: (a, c) => a.get(`/api/record/sessions/${c.sessionId}/report`) },
+  'get /record/sessions/:id/report.pdf': { allowed: EVERYONE, okStatus: 200, send: (a, c) => a.get(`/api/record/sessions/${c.sessionId}/report.pdf`) },
+  'get /record/sessions/:id/report.csv': { allowed: EVERYONE, okStatus: 200, send: (a, c) => a.get(`/api/record/sessions/${c.sessionId}/report.csv`) },
+  'get /record/sessions/:id/check': { allowed: EVERYONE, okStatus: 200, send: (a, c) => a.get(`/api/record/sessions/${c.sessionId}/check`) },
+  'post /record/verify': {
+    allowed: EVERYONE, okStatus: 400, // a file that is not a record: a field error for everyone let in
+    send: (a) => a.post('/api/record/verify').send({ text: 'not a record' }),
+  },
+  'get /record/line-sets/:id': { allowed: EVERYONE, okStatus: 200, send: (a, c) => a.get(`/api/record/line-sets/${c.lineSetId}`) },
 };
 
 describe('API access by role and venue', () => {
@@ -82,6 +94,7 @@ describe('API access by role and venue', () => {
   let deckPersonId: number;
   let sessionId: number;
   let freeLineSets: number[];
+  let watchedLineSet: number;
 
   beforeAll(async () => {
     t = await startTestApp();
@@ -94,10 +107,11 @@ describe('API access by role and venue', () => {
     deckPersonId = deck.id;
     const sets = await t.database.owner.query('SELECT id FROM line_set ORDER BY number');
     freeLineSets = sets.map((r: { id: number }) => r.id);
-    const opened = await agents.rail.post('/api/sessions').send({ title: 'Watched', lineSets: [{ lineSetId: freeLineSets.pop(), remove: [], add: [] }] });
+    watchedLineSet = freeLineSets.pop()!;
+    const opened = await agents.rail.post('/api/sessions').send({ title: 'Watched', lineSets: [{ lineSetId: watchedLineSet, remove: [], add: [] }] });
     sessionId = opened.body.session.id;
   });
-  const ctx = (who: Who): Ctx => ({ personId: deckPersonId, sessionId, who, freeLineSet: () => freeLineSets.pop()! });
+  const ctx = (who: Who): Ctx => ({ personId: deckPersonId, sessionId, lineSetId: watchedLineSet, who, freeLineSet: () => freeLineSets.pop()! });
   afterAll(async () => { await t.close(); });
 
   it('lists every route of the app in the table', () => {
@@ -153,6 +167,14 @@ describe('API access by role and venue', () => {
       expect((await agents.admin.put(`/api/people/${otherAdminId}/roles`).send({ roles: [] })).status).toBe(404);
       const [row] = await t.database.owner.query('SELECT COUNT(*) AS n FROM venue_role WHERE person_id = ?', [otherAdminId]);
       expect(Number(row.n)).toBe(1);
+    });
+
+    it("cannot read another venue's record: its sessions, reports, checks and line sets are not found", async () => {
+      expect((await other.get('/api/record/sessions')).body.sessions).toEqual([]);
+      for (const path of [`/report`, `/report.pdf`, `/report.csv`, `/check`]) {
+        expect((await other.get(`/api/record/sessions/${sessionId}${path}`)).status).toBe(404);
+      }
+      expect((await other.get(`/api/record/line-sets/${watchedLineSet}`)).status).toBe(404);
     });
   });
 });
