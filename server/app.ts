@@ -27,8 +27,9 @@ import { recordRoutes } from './features/record/record.routes';
 import { createIo, endSignIn, type RailcallServer } from './realtime/io';
 import { SessionsService } from './features/sessions/sessions.service';
 import { sessionRoutes } from './features/sessions/sessions.routes';
-import { broadcastCommitted, sessionSocketFeature, stopWatching } from './features/sessions/sessions.handlers';
-import { PresenceTracker } from './features/sessions/presence';
+import { broadcastCommitted, resyncLocalPhones, sessionSocketFeature, stopWatching } from './features/sessions/sessions.handlers';
+import { Presence } from './features/sessions/presence';
+import { redisAdapter, type RedisClient } from './realtime/redis';
 import { ReAlertTimer } from './features/sessions/re-alert';
 
 export interface AppDeps {
@@ -36,6 +37,8 @@ export interface AppDeps {
   /** Connected as the application account. */
   db: DataSource;
   logger: Logger;
+  /** Connected; given when several server processes share Socket.IO through Redis. */
+  redis?: RedisClient;
 }
 
 export interface RailcallApp {
@@ -52,7 +55,7 @@ export interface RailcallApp {
 }
 
 /** Builds the app; only server/index.ts listens. Tests start it on port 0 with their own database. */
-export function createApp({ config, db, logger }: AppDeps): RailcallApp {
+export function createApp({ config, db, logger, redis }: AppDeps): RailcallApp {
   const app = express();
   const httpServer = createServer(app);
   const session = createSessionMiddleware(config);
@@ -60,7 +63,7 @@ export function createApp({ config, db, logger }: AppDeps): RailcallApp {
   const passport = createPassport(people);
   const schedule = new ScheduleService(db);
   const sessions = new SessionsService(db, schedule, people);
-  const presence = new PresenceTracker();
+  const presence = new Presence(db, () => io!);
   const reAlerts = new ReAlertTimer(sessions, logger);
 
   let io: RailcallServer | undefined;
@@ -123,7 +126,10 @@ export function createApp({ config, db, logger }: AppDeps): RailcallApp {
   }
   app.use(errorHandler(logger, config.jsonLimit));
 
-  io = createIo(httpServer, session.middleware, passport, [sessionSocketFeature(sessions, presence, logger)], config.sessionAbsoluteMs);
+  io = createIo(httpServer, session.middleware, passport, [sessionSocketFeature(sessions, presence, logger)], config.sessionAbsoluteMs, redis && redisAdapter(redis));
+  // Broadcasts from other processes may have been lost while Redis was away: phones here check what they hold.
+  const onRedisBack = () => void resyncLocalPhones(io!, sessions).catch((error) => logger.warn({ err: error }, 'resync after Redis failed'));
+  redis?.on('ready', onRedisBack);
   // Broadcast only after commit; then set the session's re-alert timer from its new state.
   sessions.onCommitted((c) => {
     broadcastCommitted(io!, c);
@@ -139,6 +145,7 @@ export function createApp({ config, db, logger }: AppDeps): RailcallApp {
     start: () => reAlerts.start(),
     async close() {
       reAlerts.stop();
+      redis?.off('ready', onRedisBack);
       await io.close();
       if (httpServer.listening) await new Promise<void>((r) => httpServer.close(() => r()));
       await session.close();

@@ -17,6 +17,8 @@ const envSchema = z.object({
   /** Seed the demo venue (with its published demo passwords) into an empty database. Off in production unless set. */
   RAILCALL_SEED_DEMO: z.enum(['0', '1']).optional(),
   RAILCALL_LOG_LEVEL: z.enum(['fatal', 'error', 'warn', 'info', 'debug', 'silent']).default('info'),
+  /** Redis for Socket.IO between several server processes (redis://127.0.0.1:6379). Unset: one process, no Redis. */
+  RAILCALL_REDIS_URL: z.string().url().optional(),
 });
 
 export interface DbConfig {
@@ -44,6 +46,8 @@ export interface Config {
   clientDir: string | null;
   logLevel: 'fatal' | 'error' | 'warn' | 'info' | 'debug' | 'silent';
   seedDemo: boolean;
+  /** Set when several server processes share the real-time layer through Redis. */
+  redisUrl: string | null;
 }
 
 export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
@@ -63,5 +67,6 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
     clientDir: e.RAILCALL_CLIENT_DIR,
     logLevel: e.RAILCALL_LOG_LEVEL,
     seedDemo: e.RAILCALL_SEED_DEMO ? e.RAILCALL_SEED_DEMO === '1' : e.NODE_ENV !== 'production',
+    redisUrl: e.RAILCALL_REDIS_URL ?? null,
   };
 }

@@ -3,6 +3,7 @@ import { createLogger } from './logger';
 import { createDataSource } from './db/data-source';
 import { migrate, seedIfEmpty } from './db/setup';
 import { createApp } from './app';
+import { connectRedis } from './realtime/redis';
 import { DEMO_ACCOUNTS, DEMO_PASSWORD } from '@shared/protocol/http';
 
 const config = loadConfig();
@@ -18,7 +19,9 @@ await owner.destroy();
 
 const db = createDataSource(config.db);
 await db.initialize();
-const railcall = createApp({ config, db, logger });
+// Several server processes share Socket.IO through Redis; one process alone needs none.
+const redis = config.redisUrl ? await connectRedis(config.redisUrl, logger) : undefined;
+const railcall = createApp({ config, db, logger, redis });
 await railcall.start();
 railcall.httpServer.listen(config.port, config.host, () => {
   const url = `http://localhost:${config.port}`;
@@ -37,6 +40,7 @@ async function stop(signal: string) {
   stopping = true;
   logger.info({ signal }, 'stopping');
   await railcall.close();
+  await redis?.close();
   await db.destroy();
   process.exit(0);
 }

@@ -5,6 +5,6 @@ import { BrickTypeRow } from '../features/schedule/brick-type.entity';
 import { LineSetRow } from '../features/schedule/line-set.entity';
 import { PieceRow } from '../features/schedule/piece.entity';
 import { PracticeRunRow } from '../features/practice/practice.entity';
-import { ActionKeyRow, LoadingSessionRow, SessionEventRow } from '../features/sessions/session.entity';
+import { ActionKeyRow, LoadingSessionRow, PresenceRow, SessionEventRow } from '../features/sessions/session.entity';
 
-export const entities = [Venue, Person, VenueRole, BrickTypeRow, LineSetRow, PieceRow, LoadingSessionRow, SessionEventRow, ActionKeyRow, PracticeRunRow];
+export const entities = [Venue, Person, VenueRole, BrickTypeRow, LineSetRow, PieceRow, LoadingSessionRow, SessionEventRow, ActionKeyRow, PracticeRunRow, PresenceRow];

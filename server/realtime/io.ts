@@ -1,7 +1,7 @@
 import type { Server as HttpServer, IncomingMessage, ServerResponse } from 'node:http';
 import type { RequestHandler } from 'express';
 import type { PassportStatic } from 'passport';
-import { Server, type Socket } from 'socket.io';
+import { Server, type ServerOptions, type Socket } from 'socket.io';
 import { CLIENT_EVENTS, type ClientToServerEvents, type ServerToClientEvents } from '@shared/protocol/events';
 import type { SignedInUser } from '../features/people/people.service';
 
@@ -34,8 +34,9 @@ export const personRoom = (personId: number) => `person:${personId}`;
  * Socket.IO shares the Express sign-in (the documented pattern: express-session and passport
  * on the engine's handshake). A handshake without a signed-in person is refused with 401.
  */
-export function createIo(httpServer: HttpServer, session: RequestHandler, passport: PassportStatic, features: SocketFeature[], signInLifetimeMs = Infinity): RailcallServer {
-  const io: RailcallServer = new Server(httpServer, { serveClient: false, maxHttpBufferSize: 64 * 1024 });
+export function createIo(httpServer: HttpServer, session: RequestHandler, passport: PassportStatic, features: SocketFeature[], signInLifetimeMs = Infinity, adapter?: ServerOptions['adapter']): RailcallServer {
+  // With several server processes, `adapter` carries broadcasts and room queries between them (Redis Streams).
+  const io: RailcallServer = new Server(httpServer, { serveClient: false, maxHttpBufferSize: 64 * 1024, ...(adapter ? { adapter } : {}) });
   io.engine.use(onlyForHandshake(session));
   io.engine.use(onlyForHandshake(passport.session() as RequestHandler));
   io.engine.use(onlyForHandshake(((req, res, next) => {

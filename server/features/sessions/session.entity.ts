@@ -45,9 +45,29 @@ export class LoadingSessionRow {
 
   @Column({ type: 'char', length: 64, name: 'last_hash' })
   lastHash: string;
+
+  /** When the next re-alert is due (ms, server clock), null when nobody owes an answer. Any server process may claim it. */
+  @Column({ type: 'bigint', unsigned: true, name: 're_alert_due_ms', nullable: true, transformer: { to: (v: number | null) => v, from: (v: string | number | null) => (v === null ? null : Number(v)) } })
+  reAlertDueMs: number | null;
 }
 
 const bigint = { to: (v: number | null) => v, from: (v: string | number | null) => (v === null ? null : Number(v)) };
+
+/** When each person last had a session open on a phone (who is connected now comes from the sockets themselves). */
+@Entity({ name: 'session_presence' })
+export class PresenceRow {
+  @PrimaryColumn({ type: 'int', unsigned: true, name: 'session_id' })
+  sessionId: number;
+
+  @PrimaryColumn({ type: 'int', unsigned: true, name: 'person_id' })
+  personId: number;
+
+  @Column({ type: 'varchar', length: 120, name: 'person_name' })
+  personName: string;
+
+  @Column({ type: 'bigint', unsigned: true, name: 'last_seen_ms', transformer: bigint })
+  lastSeenMs: number;
+}
 
 /** One entry of the kept record. Inserted, never updated: the app's account has no UPDATE or DELETE here. */
 @Entity({ name: 'session_event' })

@@ -3,7 +3,7 @@ import type { Ack, ApiError } from '@shared/protocol/ack';
 import { HttpError } from '../../middleware/http-error';
 import { personRoom, type RailcallServer, type SocketFeature } from '../../realtime/io';
 import type { Logger } from '../../logger';
-import type { PresenceTracker } from './presence';
+import type { Presence } from './presence';
 import type { SessionsService } from './sessions.service';
 
 export const sessionRoom = (sessionId: number) => `loading:${sessionId}`;
@@ -20,13 +20,18 @@ function safeAck<T>(ack: unknown): (res: Ack<T>) => void {
 }
 
 /** Socket events of live sessions: validate, decide (in the service's transaction), acknowledge; broadcast follows commit. */
-export function sessionSocketFeature(sessions: SessionsService, presence: PresenceTracker, logger: Logger): SocketFeature {
+export function sessionSocketFeature(sessions: SessionsService, presence: Presence, logger: Logger): SocketFeature {
   return (io, socket) => {
     const user = () => socket.data.user;
 
     const announcePresence = async (sessionId: number) => {
       const { state } = await sessions.get(user(), sessionId);
-      io.to(sessionRoom(sessionId)).emit('session:presence', { sessionId, presence: presence.list(sessionId, state) });
+      io.to(sessionRoom(sessionId)).emit('session:presence', { sessionId, presence: await presence.list(sessionId, state) });
+    };
+    /** After this socket left a session's room: if it was the person's last socket there, say they are away. */
+    const left = async (sessionId: number) => {
+      await presence.seen(sessionId, user().id, user().name);
+      if (!(await presence.connected(sessionId)).has(user().id)) await announcePresence(sessionId);
     };
 
     socket.on('session:watch', async (payload, rawAck) => {
@@ -39,9 +44,11 @@ export function sessionSocketFeature(sessions: SessionsService, presence: Presen
         const { state } = await sessions.get(user(), sessionId); // 404 for another venue's session
         await socket.join(sessionRoom(sessionId));
         const { entries, lastSeq } = await sessions.events(user(), sessionId, afterSeq ?? 0);
-        const arrived = presence.connect(sessionId, user().id, user().name, socket.id);
-        ack({ ok: true, state, lastSeq, entries, presence: presence.list(sessionId, state) });
-        if (arrived) await announcePresence(sessionId);
+        await presence.seen(sessionId, user().id, user().name);
+        const connected = await presence.connected(sessionId);
+        ack({ ok: true, state, lastSeq, entries, presence: await presence.list(sessionId, state, connected) });
+        // The person's first socket in the room: everyone else learns they are here.
+        if (connected.get(user().id)?.sockets === 1) await announcePresence(sessionId);
       } catch (error) {
         ack({ ok: false, error: toApiError(error, logger) });
       }
@@ -50,8 +57,9 @@ export function sessionSocketFeature(sessions: SessionsService, presence: Presen
     socket.on('session:unwatch', async (payload) => {
       const sessionId = Number((payload as { sessionId?: unknown } | undefined)?.sessionId);
       if (!Number.isInteger(sessionId)) return;
+      if (!socket.rooms.has(sessionRoom(sessionId))) return;
       await socket.leave(sessionRoom(sessionId));
-      if (presence.disconnect(socket.id, sessionId).length) await announcePresence(sessionId).catch(() => {});
+      await left(sessionId).catch(() => {});
     });
 
     socket.on('session:act', async (payload, rawAck) => {
@@ -61,7 +69,6 @@ export function sessionSocketFeature(sessions: SessionsService, presence: Presen
         if (!parsed.success) {
           throw new HttpError('bad-input', `That action is not valid. ${parsed.error.issues.map((i) => `${i.path.join('.')}: ${i.message}`).join('; ')}`);
         }
-        presence.touch(parsed.data.sessionId, user().id);
         const { answer } = await sessions.act(user(), parsed.data.sessionId, parsed.data.envelope);
         ack(answer.ok ? answer : { ok: false, error: answer.error });
       } catch (error) {
@@ -69,12 +76,13 @@ export function sessionSocketFeature(sessions: SessionsService, presence: Presen
       }
     });
 
+    // The rooms are gone by 'disconnect': note which sessions this socket had open while they are still there.
+    let watched: number[] = [];
+    socket.on('disconnecting', () => {
+      watched = [...socket.rooms].filter((r) => r.startsWith('loading:')).map((r) => Number(r.slice('loading:'.length)));
+    });
     socket.on('disconnect', () => {
-      for (const sessionId of presence.disconnect(socket.id)) {
-        void sessions.get(user(), sessionId)
-          .then(({ state }) => io.to(sessionRoom(sessionId)).emit('session:presence', { sessionId, presence: presence.list(sessionId, state) }))
-          .catch(() => {});
-      }
+      for (const sessionId of watched) void left(sessionId).catch(() => {});
     });
   };
 }
@@ -94,6 +102,20 @@ export function broadcastCommitted(io: RailcallServer, c: { sessionId: number; e
         sessionId: c.sessionId, kind: entry.kind === 'hold-called' ? 'hold' : 'hold-released', lineSetId: entry.lineSetId, people, text, seq: entry.seq,
       });
     }
+  }
+}
+
+/**
+ * Every phone connected to this process is sent its session's latest entry and state, as if just
+ * broadcast: a phone that holds less sees the gap and fetches what it missed (after Redis was away,
+ * broadcasts from other processes may not have reached it).
+ */
+export async function resyncLocalPhones(io: RailcallServer, sessions: SessionsService): Promise<void> {
+  for (const room of io.of('/').adapter.rooms.keys()) {
+    if (!room.startsWith('loading:')) continue;
+    const sessionId = Number(room.slice('loading:'.length));
+    const latest = await sessions.latest(sessionId);
+    if (latest) io.local.to(room).emit('session:entries', { sessionId, entries: [latest.entry], state: latest.state });
   }
 }
 

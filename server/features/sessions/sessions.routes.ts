@@ -6,12 +6,12 @@ import { HttpError } from '../../middleware/http-error';
 import { route, type RouteSpec } from '../../middleware/routes';
 import { idParam } from '../../middleware/validate';
 import type { SessionsService } from './sessions.service';
-import type { PresenceTracker } from './presence';
+import type { Presence } from './presence';
 import { verifyChain } from './hash-chain';
 
 const EVERYONE = { roles: 'any' } as const;
 
-export function sessionRoutes(sessions: SessionsService, presence: PresenceTracker): RouteSpec[] {
+export function sessionRoutes(sessions: SessionsService, presence: Presence): RouteSpec[] {
   return [
     route({
       method: 'post',
@@ -35,7 +35,7 @@ export function sessionRoutes(sessions: SessionsService, presence: PresenceTrack
       params: idParam,
       async handler({ user, params }) {
         const found = await sessions.get(user, params.id);
-        return { ...found, presence: presence.list(params.id, found.state) };
+        return { ...found, presence: await presence.list(params.id, found.state) };
       },
     }),
     route({

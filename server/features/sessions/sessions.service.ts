@@ -1,7 +1,7 @@
 import { createHash } from 'node:crypto';
 import type { DataSource, EntityManager } from 'typeorm';
 import {
-  actionEnvelopeSchema, canonicalJson, createSessionState, decide, refusalToApiError, SessionPlanError, SYSTEM_ACTOR,
+  actionEnvelopeSchema, canonicalJson, createSessionState, decide, nextReAlertAtMs, refusalToApiError, SessionPlanError, silentSince, SYSTEM_ACTOR,
   type ActionEnvelope, type Actor, type AnyAction, type LogEntry, type SessionState,
 } from '@shared/protocol/session';
 import { lineSetKey, planSession, sessionPlanErrors, type CreateSessionInput, type SessionSummary } from '@shared/protocol/sessions-api';
@@ -96,6 +96,7 @@ export class SessionsService {
         createdAtMs: nowMs,
         lastSeq: 0,
         lastHash: '',
+        reAlertDueMs: null,
       }));
       row.lastHash = genesisHash(row);
       const entries = await appendEntries(m, row, [{
@@ -190,7 +191,16 @@ export class SessionsService {
     return this.decideAndRecord(user, sessionId, { key: '', clientTimeMs: 0, action: action as ActionEnvelope['action'] }, SYSTEM_ACTOR);
   }
 
-  private async decideAndRecord(user: SignedInUser, sessionId: number, envelope: ActionEnvelope, actor: Actor): Promise<ActOutcome> {
+  /**
+   * The re-alert due now, if any: claimed under the session's row lock, so however many server
+   * processes try at the same moment, exactly one writes it and the others find it no longer due.
+   */
+  async reAlertIfDue(venueId: number, sessionId: number): Promise<ActOutcome> {
+    const user: SignedInUser = { id: SYSTEM_ACTOR.personId, name: SYSTEM_ACTOR.name, email: '', venueId, roles: [] };
+    return this.decideAndRecord(user, sessionId, { key: '', clientTimeMs: 0, action: { type: 're-alert', personIds: [] } as AnyAction as ActionEnvelope['action'] }, SYSTEM_ACTOR, true);
+  }
+
+  private async decideAndRecord(user: SignedInUser, sessionId: number, envelope: ActionEnvelope, actor: Actor, claimReAlert = false): Promise<ActOutcome> {
     const outcome = await this.db.transaction(async (m): Promise<ActOutcome> => {
       const row = await m.getRepository(LoadingSessionRow).createQueryBuilder('s').setLock('pessimistic_write')
         .where('s.id = :sessionId AND s.venue_id = :venueId', { sessionId, venueId: user.venueId }).getOne();
@@ -206,6 +216,12 @@ export class SessionsService {
         }
       }
       const nowMs = this.now();
+      if (claimReAlert) {
+        const due = silentSince(row.state, nowMs).filter((p) => p.due).map((p) => p.personId);
+        // Decided from the locked state, not the timer's copy: whoever claimed it first has already moved it on.
+        if (due.length === 0) return { answer: { ok: true, seq: row.lastSeq, state: row.state }, entries: [], state: row.state };
+        envelope = { ...envelope, action: { type: 're-alert', personIds: due } as AnyAction as ActionEnvelope['action'] };
+      }
       const before = row.state;
       const decision = decide(before, envelope.action as AnyAction, actor, nowMs);
       const isSystem = actor.personId === SYSTEM_ACTOR.personId;
@@ -216,7 +232,7 @@ export class SessionsService {
         row.phase = decision.state.phase;
         await writeBackSchedule(m, user.venueId, row.plan, before, decision.state);
       }
-      await m.getRepository(LoadingSessionRow).update({ id: row.id }, { state: row.state, phase: row.phase, lastSeq: row.lastSeq, lastHash: row.lastHash });
+      await m.getRepository(LoadingSessionRow).update({ id: row.id }, { state: row.state, phase: row.phase, lastSeq: row.lastSeq, lastHash: row.lastHash, reAlertDueMs: nextReAlertAtMs(row.state) });
       const answer: StoredAnswer = decision.ok
         ? { ok: true, seq: row.lastSeq }
         : { ok: false, seq: row.lastSeq, error: refusalToApiError(decision) };
@@ -229,10 +245,24 @@ export class SessionsService {
     return outcome;
   }
 
+  /** A session's newest entry and state, whatever the venue (for phones already admitted to its room). */
+  async latest(sessionId: number): Promise<{ entry: LogEntry; state: SessionState } | null> {
+    const row = await this.db.getRepository(LoadingSessionRow).findOneBy({ id: sessionId });
+    const last = row && await this.db.getRepository(SessionEventRow).findOneBy({ sessionId, seq: row.lastSeq });
+    return row && last ? { entry: toLogEntry(last), state: row.state } : null;
+  }
+
   /** Sessions still going, for the re-alert timer after a restart. */
   async openSessions(): Promise<Array<{ id: number; venueId: number; state: SessionState }>> {
     const rows = await this.db.getRepository(LoadingSessionRow).createQueryBuilder('s').where("s.phase = 'loading'").getMany();
     return rows.map((r) => ({ id: r.id, venueId: r.venueId, state: r.state }));
+  }
+
+  /** Sessions whose re-alert is due by `untilMs`, whichever server process wrote them. */
+  async reAlertsDueBy(untilMs: number): Promise<Array<{ id: number; venueId: number; dueMs: number }>> {
+    const rows = await this.db.getRepository(LoadingSessionRow).createQueryBuilder('s').select(['s.id', 's.venueId', 's.reAlertDueMs'])
+      .where('s.re_alert_due_ms <= :untilMs', { untilMs }).getMany();
+    return rows.map((r) => ({ id: r.id, venueId: r.venueId, dueMs: r.reAlertDueMs! }));
   }
 
   private async row(user: SignedInUser, id: number): Promise<LoadingSessionRow> {

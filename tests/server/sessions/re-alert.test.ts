@@ -40,3 +40,51 @@ describe('re-alerting whoever is silent after a move call', () => {
     expect(locked.ok).toBe(false);
   }, 15_000);
 });
+
+describe('re-alerts with two server processes on one database', () => {
+  let a: TestApp;
+  let b: TestApp;
+  let crew: Awaited<ReturnType<typeof demoCrew>>;
+  let sessionId: number;
+  let aRunning = true;
+  const reAlerts = async () => (await a.database.owner.query("SELECT seq, server_time_ms AS t FROM session_event WHERE session_id = ? AND kind = 're-alerted' ORDER BY seq", [sessionId])) as Array<{ seq: number; t: string }>;
+
+  beforeAll(async () => {
+    a = await startTestApp();
+    await a.database.owner.query("UPDATE venue SET settings = JSON_SET(settings, '$.reAlertSeconds', 5)");
+    b = await a.restart(); // a second app on the same database, as a second server process
+    crew = await demoCrew(a.url);
+    ({ sessionId } = await openDrapeUnload(a.url, crew.rail.cookie));
+    for (const [phone, role] of [[crew.rail, 'rail'], [crew.loader1, 'loader'], [crew.loader2, 'loader'], [crew.deck, 'deck']] as const) {
+      await phone.must(sessionId, { type: 'join', role });
+    }
+    await crew.rail.must(sessionId, { type: 'begin' });
+  });
+  afterAll(async () => {
+    crew.all.forEach((p) => p.close());
+    await b.stop();
+    if (aRunning) await a.stop();
+    await a.database.drop();
+  });
+
+  it('writes exactly one re-alert per due moment, and the other process takes over when the first stops', async () => {
+    // Both processes know the due time: A from its own commit, B from the database.
+    await crew.rail.must(sessionId, { type: 'call-move' });
+    const deadline = Date.now() + 8000;
+    while ((await reAlerts()).length < 1 && Date.now() < deadline) await new Promise((r) => setTimeout(r, 200));
+    await new Promise((r) => setTimeout(r, 1500)); // time for a duplicate to show up, were there one
+    expect(await reAlerts()).toHaveLength(1);
+    // The process that wrote the call stops; the next due moment (5 s later) is fired by the other one.
+    crew.all.forEach((p) => p.close());
+    await a.stop();
+    aRunning = false;
+    const next = Date.now() + 9000;
+    while ((await reAlerts()).length < 2 && Date.now() < next) await new Promise((r) => setTimeout(r, 200));
+    await new Promise((r) => setTimeout(r, 1500));
+    const rows = await reAlerts();
+    expect(rows).toHaveLength(2);
+    // One per period of the venue's 5 s (a poll may take up to a second more to notice).
+    expect(Number(rows[1].t) - Number(rows[0].t)).toBeGreaterThanOrEqual(5000);
+    expect(Number(rows[1].t) - Number(rows[0].t)).toBeLessThan(5000 + 1500);
+  }, 30_000);
+});
