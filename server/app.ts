@@ -24,6 +24,7 @@ import { PracticeService } from './features/practice/practice.service';
 import { practiceRoutes } from './features/practice/practice.routes';
 import { RecordService } from './features/record/record.service';
 import { recordRoutes } from './features/record/record.routes';
+import { ScheduleEditor } from './features/schedule/schedule-edit.service';
 import { createIo, endSignIn, type RailcallServer } from './realtime/io';
 import { SessionsService } from './features/sessions/sessions.service';
 import { sessionRoutes } from './features/sessions/sessions.routes';
@@ -62,6 +63,7 @@ export function createApp({ config, db, logger, redis }: AppDeps): RailcallApp {
   const people = new PeopleService(db);
   const passport = createPassport(people);
   const schedule = new ScheduleService(db);
+  const editor = new ScheduleEditor(db, schedule);
   const sessions = new SessionsService(db, schedule, people);
   const presence = new Presence(db, () => io!);
   const reAlerts = new ReAlertTimer(sessions, logger);
@@ -75,7 +77,7 @@ export function createApp({ config, db, logger, redis }: AppDeps): RailcallApp {
       onSignedOut: (sessionId) => io && endSignIn(io, sessionId),
     }),
     ...peopleRoutes(people, (personId) => io && stopWatching(io, personId)),
-    ...scheduleRoutes(schedule),
+    ...scheduleRoutes(schedule, editor),
     ...sessionRoutes(sessions, presence),
     ...practiceRoutes(new PracticeService(db, schedule)),
     ...recordRoutes(new RecordService(db)),

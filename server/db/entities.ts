@@ -5,6 +5,7 @@ import { BrickTypeRow } from '../features/schedule/brick-type.entity';
 import { LineSetRow } from '../features/schedule/line-set.entity';
 import { PieceRow } from '../features/schedule/piece.entity';
 import { PracticeRunRow } from '../features/practice/practice.entity';
+import { ScheduleChangeRow } from '../features/schedule/schedule-change.entity';
 import { ActionKeyRow, LoadingSessionRow, PresenceRow, SessionEventRow } from '../features/sessions/session.entity';
 
-export const entities = [Venue, Person, VenueRole, BrickTypeRow, LineSetRow, PieceRow, LoadingSessionRow, SessionEventRow, ActionKeyRow, PracticeRunRow, PresenceRow];
+export const entities = [Venue, Person, VenueRole, BrickTypeRow, LineSetRow, PieceRow, ScheduleChangeRow, LoadingSessionRow, SessionEventRow, ActionKeyRow, PracticeRunRow, PresenceRow];

@@ -4,7 +4,7 @@ import type { DataSource } from 'typeorm';
  * Tables the application account may only read and append to: the kept record.
  * The session feature's log table is added here by its migration's owner.
  */
-export const APPEND_ONLY_TABLES = new Set<string>(['session_event']);
+export const APPEND_ONLY_TABLES = new Set<string>(['session_event', 'schedule_change']);
 
 /** Tables the application only reads. */
 const READ_ONLY_TABLES = new Set<string>(['schema_migration']);

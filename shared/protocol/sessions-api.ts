@@ -1,7 +1,7 @@
 import { z } from 'zod';
 import { checkLineSet, planChange, type BrickCounts, type LineSetLoad, type PlanInput, type PlanResult, type PlanWarning } from '../rigging';
 import type { SessionState } from './session/state';
-import type { ScheduleView } from './schedule';
+import { pieceLoads, type ScheduleView } from './schedule';
 
 /** `POST /api/sessions`: a plan of one or more line sets, each with pieces to take off and to hang. */
 export const createSessionSchema = z.object({
@@ -98,16 +98,15 @@ export function planSession(schedule: Pick<ScheduleView, 'venue' | 'lineSets' | 
     bridgeStock = result.final.bridgeStock;
     // The batten after the change, for the capacity and lift line checks.
     const hung = [
-      ...ls.pieces.filter((p) => !asked.remove.includes(p.id)).map((p) => ({ massKg: p.massKg, positionM: p.positionM })),
-      ...newPieces.map((p) => ({ massKg: p.massKg, positionM: p.positionM })),
+      ...ls.pieces.filter((p) => !asked.remove.includes(p.id)),
+      ...newPieces.map((p) => ({ massKg: p.massKg, positionM: p.positionM, spreadFromM: null, spreadToM: null })),
     ];
     const checks = result.steps.length
       ? checkLineSet({
           lengthM: ls.pipeLengthM,
           liftLines: ls.liftLinesM.map((atM) => ({ atM, ratedKg: ls.liftLineRatingKg })),
-          pipeKgPerM: ls.pipeKg / ls.pipeLengthM,
-          pointLoads: hung.filter((p) => p.positionM !== null).map((p) => ({ atM: p.positionM!, massKg: p.massKg })),
-          spreadLoads: hung.filter((p) => p.positionM === null).map((p) => ({ fromM: 0, toM: ls.pipeLengthM, massKg: p.massKg })),
+          pipeKgPerM: ls.pipeKgPerM,
+          ...pieceLoads(hung, ls.pipeLengthM),
           battenRatedKgPerM: ls.battenRatingKgPerM,
           purchase: ls.purchase,
           arborKg: ls.arborKg,
@@ -122,7 +121,11 @@ export function planSession(schedule: Pick<ScheduleView, 'venue' | 'lineSets' | 
     const flagged: PlanWarning[] = ls.outOfBalance
       ? [{ severity: 'warning', code: 'flagged-out-of-balance', message: 'Its last test of balance found it out of balance: the weights on the schedule may not match the set. Check it at the rail before anyone loads.' }]
       : [];
-    const warnings = [...flagged, ...result.warnings, ...checks];
+    // Out of service: the plan is refused whatever it would do (the director puts the set back first).
+    const outOfService: PlanWarning[] = ls.outOfService !== null
+      ? [{ severity: 'error', code: 'out-of-service', message: `It is out of service (${ls.outOfService}): the technical director must put it back in service before it is planned.` }]
+      : [];
+    const warnings = [...outOfService, ...flagged, ...result.warnings, ...checks];
     const start = { purchase: input.purchase, pipeKg: input.pipeKg, arborKg: input.arborKg, pieces: input.pieces, bricks: input.bricks };
     const pieceNames = Object.fromEntries([
       ...ls.pieces.map((p) => [pieceKey(p.id), p.name] as const),

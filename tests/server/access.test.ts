@@ -1,6 +1,8 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import request from 'supertest';
 import { DEMO_ACCOUNTS } from '@shared/protocol/http';
+import { DEFAULT_SETTINGS } from '@shared/protocol/schedule';
+import { LINE_SET_FIELDS } from '../../server/features/schedule/schedule-edit.service';
 import type { Role } from '@shared/protocol/roles';
 import { startTestApp, type TestApp } from '../support/app';
 import { addVenueWithPeople, signedIn, type Agent } from '../support/people';
@@ -18,6 +20,11 @@ interface Ctx {
   /** A line set of the venue (the one the watched session holds). */
   lineSetId: number;
   who: Who;
+  /** A line set as it is now: its id, version and editable fields (read fresh for each request). */
+  lineSet(number: number): Promise<{ id: number; version: number; fields: Record<string, unknown>; pieceIds: number[] }>;
+  /** A throwaway row made for a delete: a line set, a piece on line set 30, or a brick type. */
+  scratch(kind: 'line-set' | 'piece' | 'brick-type'): Promise<number>;
+  brickTypeId: number;
 }
 interface Case {
   /** Who gets through; everyone else gets 401 (nobody) or 403. */
@@ -26,7 +33,7 @@ interface Case {
   /** Where the route lets someone in but the session's own rules answer otherwise. */
   otherwise?: Partial<Record<Who, number>>;
   /** A request that is valid when allowed. */
-  send(agent: Agent, ctx: Ctx): request.Test;
+  send(agent: Agent, ctx: Ctx): request.Test | Promise<request.Response>;
 }
 
 /** Every API route: the test fails when a route exists that this table does not list. */
@@ -52,6 +59,79 @@ const TABLE: Record<string, Case> = {
   },
   'get /venue': { allowed: EVERYONE, okStatus: 200, send: (a) => a.get('/api/venue') },
   'get /schedule': { allowed: EVERYONE, okStatus: 200, send: (a) => a.get('/api/schedule') },
+  'put /venue': {
+    allowed: ['admin'], okStatus: 200,
+    send: (a) => a.put('/api/venue').send({ name: 'Larkspur Playhouse', units: 'imperial', settings: DEFAULT_SETTINGS }),
+  },
+  'get /venue/history': { allowed: ['admin'], okStatus: 200, send: (a) => a.get('/api/venue/history') },
+  // Line sets: the director; a rail operator only when the director grants it (not in the demo).
+  'post /line-sets': {
+    allowed: ['admin', 'rail'], okStatus: 201, otherwise: { rail: 403 },
+    send: async (a, c) => a.post('/api/line-sets').send({ lineSet: { ...(await c.lineSet(29)).fields, number: 100 + ++counter } }),
+  },
+  'put /line-sets/:id': {
+    allowed: ['admin', 'rail'], okStatus: 200, otherwise: { rail: 403 },
+    send: async (a, c) => {
+      const ls = await c.lineSet(29);
+      return a.put(`/api/line-sets/${ls.id}`).send({ lineSet: { ...ls.fields, notes: `Checked by ${c.who}` }, version: ls.version });
+    },
+  },
+  'delete /line-sets/:id': {
+    allowed: ['admin', 'rail'], okStatus: 204, otherwise: { rail: 403 },
+    send: async (a, c) => a.delete(`/api/line-sets/${await c.scratch('line-set')}`).send({ version: 1 }),
+  },
+  'put /line-sets/:id/service': {
+    allowed: ['admin', 'rail'], okStatus: 200, otherwise: { rail: 403 },
+    send: async (a, c) => {
+      const ls = await c.lineSet(29);
+      return a.put(`/api/line-sets/${ls.id}/service`).send({ version: ls.version, inService: true });
+    },
+  },
+  'get /line-sets/:id/history': { allowed: EVERYONE, okStatus: 200, send: async (a, c) => a.get(`/api/line-sets/${(await c.lineSet(29)).id}/history`) },
+  // Pieces and their weights: the director and rail operators.
+  'post /line-sets/:id/pieces': {
+    allowed: ['admin', 'rail'], okStatus: 201,
+    send: async (a, c) => {
+      const ls = await c.lineSet(30);
+      return a.post(`/api/line-sets/${ls.id}/pieces`).send({
+        version: ls.version,
+        piece: { name: `Tag ${++counter}`, massKg: 1, positionM: 1, spreadFromM: null, spreadToM: null, department: '', notes: '' },
+      });
+    },
+  },
+  'put /pieces/:id': {
+    allowed: ['admin', 'rail'], okStatus: 200,
+    send: async (a, c) => {
+      const ls = await c.lineSet(30);
+      return a.put(`/api/pieces/${ls.pieceIds[0]}`).send({
+        version: ls.version,
+        piece: { name: 'Sharkstooth scrim', massKg: 38 * 0.45359237, positionM: null, spreadFromM: null, spreadToM: null, department: 'Soft goods', notes: `Seen by ${c.who}` },
+      });
+    },
+  },
+  'delete /pieces/:id': {
+    allowed: ['admin', 'rail'], okStatus: 200,
+    send: async (a, c) => {
+      const pieceId = await c.scratch('piece');
+      return a.delete(`/api/pieces/${pieceId}`).send({ version: (await c.lineSet(30)).version });
+    },
+  },
+  'post /brick-types': {
+    allowed: ['admin'], okStatus: 201,
+    send: (a) => a.post('/api/brick-types').send({ brickType: { code: `t${++counter}`, name: 'Test brick', massKg: 5, heightM: null, widthM: null, depthM: null } }),
+  },
+  'put /brick-types/:id': {
+    allowed: ['admin'], okStatus: 200,
+    send: (a, c) => a.put(`/api/brick-types/${c.brickTypeId}`).send({ brickType: { code: 'access', name: `Access brick ${++counter}`, massKg: 4, heightM: null, widthM: null, depthM: null } }),
+  },
+  'delete /brick-types/:id': {
+    allowed: ['admin'], okStatus: 204,
+    send: async (a, c) => a.delete(`/api/brick-types/${await c.scratch('brick-type')}`).send({}),
+  },
+  'put /brick-types/:id/stock': {
+    allowed: ['admin'], okStatus: 200,
+    send: (a, c) => a.put(`/api/brick-types/${c.brickTypeId}/stock`).send({ bridgeCount: ++counter, reason: 'Counted on the bridge' }),
+  },
   'post /sessions': {
     allowed: ['admin', 'rail'], okStatus: 201,
     send: (a, c) => a.post('/api/sessions').send({ title: 'Access check', lineSets: [{ lineSetId: c.freeLineSet(), remove: [], add: [] }] }),
@@ -94,6 +174,7 @@ describe('API access by role and venue', () => {
   let deckPersonId: number;
   let sessionId: number;
   let freeLineSets: number[];
+  let brickTypeId: number;
   let watchedLineSet: number;
 
   beforeAll(async () => {
@@ -110,8 +191,28 @@ describe('API access by role and venue', () => {
     watchedLineSet = freeLineSets.pop()!;
     const opened = await agents.rail.post('/api/sessions').send({ title: 'Watched', lineSets: [{ lineSetId: watchedLineSet, remove: [], add: [] }] });
     sessionId = opened.body.session.id;
+    const [venue] = await t.database.owner.query('SELECT id FROM venue ORDER BY id LIMIT 1');
+    const brick = await t.database.owner.query("INSERT INTO brick_type (venue_id, code, name, mass_kg) VALUES (?, 'access', 'Access brick', 4)", [venue.id]);
+    brickTypeId = brick.insertId;
   });
-  const ctx = (who: Who): Ctx => ({ personId: deckPersonId, sessionId, lineSetId: watchedLineSet, who, freeLineSet: () => freeLineSets.pop()! });
+  const lineSet: Ctx['lineSet'] = async (number) => {
+    const res = await agents.admin.get('/api/schedule');
+    const ls = res.body.lineSets.find((l: { number: number }) => l.number === number);
+    return { id: ls.id, version: ls.version, fields: Object.fromEntries(LINE_SET_FIELDS.map((f) => [f, ls[f]])), pieceIds: ls.pieces.map((p: { id: number }) => p.id) };
+  };
+  const scratch: Ctx['scratch'] = async (kind) => {
+    const owner = t.database.owner;
+    const [venue] = await owner.query('SELECT id FROM venue ORDER BY id LIMIT 1');
+    if (kind === 'brick-type') return (await owner.query('INSERT INTO brick_type (venue_id, code, name, mass_kg) VALUES (?, ?, ?, 1)', [venue.id, `x${++counter}`, 'Scratch'])).insertId;
+    if (kind === 'piece') {
+      const [ls] = await owner.query('SELECT id FROM line_set WHERE number = 30');
+      return (await owner.query("INSERT INTO piece (line_set_id, name, mass_kg) VALUES (?, 'Scratch', 1)", [ls.id])).insertId;
+    }
+    return (await owner.query(`INSERT INTO line_set (venue_id, number, name, purchase, pipe_size, pipe_length_m, pipe_kg_per_m, pipe_kg, lift_lines_m,
+      lift_line_rating_kg, batten_rating_kg_per_m, arbor_kg, arbor_capacity_kg, bricks) VALUES (?, ?, 'Scratch', 1, '', 10, 4, 40, '[1, 9]', 200, 30, 30, 500, '{}')`,
+    [venue.id, 500 + ++counter])).insertId;
+  };
+  const ctx = (who: Who): Ctx => ({ personId: deckPersonId, sessionId, lineSetId: watchedLineSet, who, freeLineSet: () => freeLineSets.pop()!, lineSet, scratch, brickTypeId });
   afterAll(async () => { await t.close(); });
 
   it('lists every route of the app in the table', () => {

@@ -22,24 +22,93 @@ const PIPE_LENGTH_M = 40 * FT;
 const LIFT_LINES_M = [2, 11, 20, 29, 38].map((ft) => ft * FT);
 
 const BRICKS = [
-  { code: 'full', name: 'Full brick', massKg: 20 * LB, heightM: 0.0508, bridgeCount: 60 },
-  { code: 'half', name: 'Half brick', massKg: 10 * LB, heightM: 0.0254, bridgeCount: 24 },
+  { code: 'full', name: 'Full brick', massKg: 20 * LB, heightM: 0.0508, widthM: null, depthM: null, bridgeCount: 60 },
+  { code: 'half', name: 'Half brick', massKg: 10 * LB, heightM: 0.0254, widthM: null, depthM: null, bridgeCount: 24 },
 ];
+
+interface DemoPiece {
+  name: string;
+  lb: number;
+  /** At a point, ft from the stage-left end of the batten. */
+  positionFt?: number;
+  /** Spread from-to, ft from the stage-left end; neither = spread along the whole batten. */
+  spreadFt?: [number, number];
+  department?: string;
+  notes?: string;
+}
 
 interface DemoLineSet {
   number: number;
   name: string;
   purchase: 1 | 2;
-  pieces: { name: string; lb: number; positionFt?: number }[];
+  pieces: DemoPiece[];
+  /** High and low trims, ft above the stage floor. */
+  trimsFt?: [number, number];
+  notes?: string;
+  outOfService?: string;
 }
 
+const drape = (name: string, lb: number, notes = ''): DemoPiece => ({ name, lb, department: 'Soft goods', notes });
+const border = (n: number, lb = 45) => drape(`Black border ${n}`, lb);
+const legs = (n: number): DemoPiece[] => [
+  { name: `Leg ${n} stage left`, lb: 30, spreadFt: [0, 8], department: 'Soft goods' },
+  { name: `Leg ${n} stage right`, lb: 30, spreadFt: [32, 40], department: 'Soft goods' },
+];
+const electric = (n: number, lb: number): DemoPiece[] => [
+  { name: `Electric ${n} fixtures and cable`, lb, department: 'Lighting' },
+];
+
+/**
+ * The fly plot of "The Lantern Keeper's Daughter": borders and legs, electrics on double purchase,
+ * drops, scenery at points and spread, spare pipes, one set out of service. Line sets 2, 5, 7, 9, 12
+ * and 15 are the ones the walk-through and the tests use: keep them as they are.
+ */
 const LINE_SETS: DemoLineSet[] = [
-  { number: 2, name: 'Main border', purchase: 1, pieces: [{ name: 'Black border 1', lb: 45 }] },
-  { number: 5, name: 'Harbour sky', purchase: 1, pieces: [{ name: 'Sky drop, dusk', lb: 95 }] },
-  { number: 7, name: 'Sea-mist drapes', purchase: 1, pieces: [{ name: 'Sea-mist drape A', lb: 40 }, { name: 'Sea-mist drape B', lb: 40 }] },
-  { number: 9, name: 'Lighthouse lamp', purchase: 1, pieces: [{ name: 'Lamp room flat', lb: 150, positionFt: 20 }] },
-  { number: 12, name: 'First electric', purchase: 2, pieces: [{ name: 'Electric 1 fixtures and cable', lb: 310 }] },
+  { number: 1, name: 'House curtain', purchase: 1, pieces: [drape('Red velour main curtain', 180, 'Guillotine; do not fly during the house call')], trimsFt: [28, 0] },
+  { number: 2, name: 'Main border', purchase: 1, pieces: [{ name: 'Black border 1', lb: 45 }], trimsFt: [30, 18] },
+  { number: 3, name: 'Legs 1', purchase: 1, pieces: legs(1), trimsFt: [30, 0] },
+  { number: 4, name: 'Show portal', purchase: 1, pieces: [{ name: 'Lighthouse portal header', lb: 120, spreadFt: [4, 36], department: 'Scenery' }], trimsFt: [26, 17] },
+  { number: 5, name: 'Harbour sky', purchase: 1, pieces: [{ name: 'Sky drop, dusk', lb: 95 }], trimsFt: [32, 0] },
+  { number: 6, name: 'Border 2', purchase: 1, pieces: [border(2)], trimsFt: [30, 19] },
+  { number: 7, name: 'Sea-mist drapes', purchase: 1, pieces: [{ name: 'Sea-mist drape A', lb: 40 }, { name: 'Sea-mist drape B', lb: 40 }], trimsFt: [30, 0] },
+  { number: 8, name: 'Legs 2', purchase: 1, pieces: legs(2), trimsFt: [30, 0] },
+  { number: 9, name: 'Lighthouse lamp', purchase: 1, pieces: [{ name: 'Lamp room flat', lb: 150, positionFt: 20 }], trimsFt: [34, 9] },
+  { number: 10, name: 'Gull flight', purchase: 1, pieces: [
+    { name: 'Gull cut-out left', lb: 12, positionFt: 11, department: 'Scenery' },
+    { name: 'Gull cut-out right', lb: 12, positionFt: 29, department: 'Scenery' },
+  ], trimsFt: [36, 14] },
+  { number: 11, name: 'Border 3', purchase: 1, pieces: [border(3)], trimsFt: [30, 20] },
+  { number: 12, name: 'First electric', purchase: 2, pieces: [{ name: 'Electric 1 fixtures and cable', lb: 310 }], trimsFt: [24, 4] },
+  { number: 13, name: 'Legs 3', purchase: 1, pieces: legs(3), trimsFt: [30, 0] },
+  { number: 14, name: 'Harbour wall', purchase: 1, pieces: [{ name: 'Harbour wall flat', lb: 160, spreadFt: [6, 22], department: 'Scenery', notes: 'Breasted upstage at low trim' }], trimsFt: [35, 0] },
   { number: 15, name: 'Spare pipe', purchase: 1, pieces: [] },
+  { number: 16, name: 'Rain curtain', purchase: 1, pieces: [drape('Silver rain strings', 55)], trimsFt: [33, 0] },
+  { number: 17, name: 'Border 4', purchase: 1, pieces: [border(4)], trimsFt: [30, 21] },
+  { number: 18, name: 'Fishing nets', purchase: 1, pieces: [
+    { name: 'Net swag', lb: 35, spreadFt: [10, 30], department: 'Props' },
+    { name: 'Float cluster', lb: 18, positionFt: 20, department: 'Props' },
+  ], trimsFt: [34, 12] },
+  { number: 19, name: 'Spare pipe', purchase: 1, pieces: [] },
+  { number: 20, name: 'Second electric', purchase: 2, pieces: electric(2, 280), trimsFt: [25, 4] },
+  { number: 21, name: 'Legs 4', purchase: 1, pieces: legs(4), trimsFt: [30, 0] },
+  { number: 22, name: 'Spare pipe', purchase: 1, pieces: [], outOfService: 'Loft block bearing grinding: inspection booked' },
+  { number: 23, name: 'Keeper\'s cottage', purchase: 1, pieces: [
+    { name: 'Cottage roof', lb: 140, spreadFt: [12, 28], department: 'Scenery' },
+    { name: 'Chimney', lb: 40, positionFt: 24, department: 'Scenery' },
+  ], trimsFt: [36, 0] },
+  { number: 24, name: 'Storm drop', purchase: 1, pieces: [drape('Storm cloud drop', 90)], trimsFt: [32, 0] },
+  { number: 25, name: 'Border 5', purchase: 1, pieces: [border(5)], trimsFt: [30, 22] },
+  { number: 26, name: 'Moon', purchase: 1, pieces: [{ name: 'Moon disc', lb: 65, positionFt: 27, department: 'Scenery', notes: 'LED inside: cable tied off at the centre line' }], trimsFt: [38, 16] },
+  { number: 27, name: 'Legs 5', purchase: 1, pieces: legs(5), trimsFt: [30, 0] },
+  { number: 28, name: 'Third electric', purchase: 2, pieces: electric(3, 240), trimsFt: [26, 5] },
+  { number: 29, name: 'Spare pipe', purchase: 1, pieces: [] },
+  { number: 30, name: 'Scrim', purchase: 1, pieces: [drape('Sharkstooth scrim', 38)], trimsFt: [32, 0] },
+  { number: 31, name: 'Border 6', purchase: 1, pieces: [border(6, 50)], trimsFt: [30, 23] },
+  { number: 32, name: 'Night sky', purchase: 1, pieces: [drape('Star drop', 85, 'Fibre optic: handle by the pipe only')], trimsFt: [33, 0] },
+  { number: 33, name: 'Cyclorama', purchase: 1, pieces: [drape('Muslin cyclorama', 110)], trimsFt: [34, 0] },
+  { number: 34, name: 'Cyc lights', purchase: 2, pieces: electric(4, 260), trimsFt: [27, 6] },
+  { number: 35, name: 'Spare pipe', purchase: 1, pieces: [] },
+  { number: 36, name: 'Upstage black', purchase: 1, pieces: [drape('Black traveller', 120)], trimsFt: [30, 0] },
 ];
 
 /** Empty arbor and the bricks that balance it, the set pipe-heavy by less than the lightest brick. */
@@ -67,7 +136,9 @@ export async function seedDemoVenue(m: EntityManager): Promise<Venue> {
       number: ls.number,
       name: ls.name,
       purchase: ls.purchase,
-      pipeSize: 'NPS 1-1/2 Sch 40',
+      distanceM: (1 + ls.number * 0.75) * FT,
+      pipeSize: '1-1/2 in Schedule 40',
+      pipeKgPerM: BATTEN_KG_PER_M,
       pipeLengthM: PIPE_LENGTH_M,
       pipeKg,
       liftLinesM: LIFT_LINES_M,
@@ -75,12 +146,24 @@ export async function seedDemoVenue(m: EntityManager): Promise<Venue> {
       battenRatingKgPerM: 25 * LB / FT,
       arborKg,
       arborCapacityKg: (ls.purchase === 2 ? 1800 : 1200) * LB,
+      highTrimM: ls.trimsFt ? ls.trimsFt[0] * FT : null,
+      lowTrimM: ls.trimsFt ? ls.trimsFt[1] * FT : null,
+      notes: ls.notes ?? '',
       bricks,
       outOfBalance: false,
+      outOfService: ls.outOfService ?? null,
+      version: 1,
     }));
     if (ls.pieces.length) {
       await m.getRepository(PieceRow).insert(ls.pieces.map((p) => ({
-        lineSetId: row.id, name: p.name, massKg: p.lb * LB, positionM: p.positionFt === undefined ? null : p.positionFt * FT,
+        lineSetId: row.id,
+        name: p.name,
+        massKg: p.lb * LB,
+        positionM: p.positionFt === undefined ? null : p.positionFt * FT,
+        spreadFromM: p.spreadFt ? p.spreadFt[0] * FT : null,
+        spreadToM: p.spreadFt ? p.spreadFt[1] * FT : null,
+        department: p.department ?? '',
+        notes: p.notes ?? '',
       })));
     }
   }

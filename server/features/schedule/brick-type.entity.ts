@@ -22,6 +22,12 @@ export class BrickTypeRow {
   @Column({ type: 'double', name: 'height_m', nullable: true })
   heightM: number | null;
 
+  @Column({ type: 'double', name: 'width_m', nullable: true })
+  widthM: number | null;
+
+  @Column({ type: 'double', name: 'depth_m', nullable: true })
+  depthM: number | null;
+
   /** Bricks of this type waiting on the loading bridge. */
   @Column({ type: 'int', unsigned: true, name: 'bridge_count' })
   bridgeCount: number;

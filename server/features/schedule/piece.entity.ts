@@ -15,7 +15,20 @@ export class PieceRow {
   @Column({ type: 'double', name: 'mass_kg' })
   massKg: number;
 
-  /** Where its weight sits: centre, metres from the stage-left end. Null = spread along the pipe. */
+  /** At a point: its centre, m from the stage-left end of the batten. Null = spread. */
   @Column({ type: 'double', name: 'position_m', nullable: true })
   positionM: number | null;
+
+  /** Spread from-to along the batten; both null (and no point) = along the whole batten. */
+  @Column({ type: 'double', name: 'spread_from_m', nullable: true })
+  spreadFromM: number | null;
+
+  @Column({ type: 'double', name: 'spread_to_m', nullable: true })
+  spreadToM: number | null;
+
+  @Column({ type: 'varchar', length: 40, default: '' })
+  department: string;
+
+  @Column({ type: 'varchar', length: 500, default: '' })
+  notes: string;
 }

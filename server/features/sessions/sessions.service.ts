@@ -230,7 +230,9 @@ export class SessionsService {
       if (decision.ok) {
         row.state = decision.state;
         row.phase = decision.state.phase;
-        await writeBackSchedule(m, user.venueId, row.plan, before, decision.state);
+        await writeBackSchedule(m, user.venueId, row.plan, before, decision.state, {
+          personId: user.id, personName: user.name, sessionId: row.id, via: 'loading session', reason: `Written back by the loading session "${row.title}"`,
+        });
       }
       await m.getRepository(LoadingSessionRow).update({ id: row.id }, { state: row.state, phase: row.phase, lastSeq: row.lastSeq, lastHash: row.lastHash, reAlertDueMs: nextReAlertAtMs(row.state) });
       const answer: StoredAnswer = decision.ok

@@ -99,6 +99,18 @@ describe('a full unload of two drapes from line set 7', () => {
     expect(bridge.full).toBe(60 + pulled);
   });
 
+  it('kept the write-back in line set 7\'s history, naming the session that wrote it', async () => {
+    const { body: schedule } = await request(t.url).get('/api/schedule').set('Cookie', crew.rail.cookie);
+    const ls7 = schedule.lineSets.find((l: { number: number }) => l.number === 7);
+    const { body } = await request(t.url).get(`/api/line-sets/${ls7.id}/history`).set('Cookie', crew.deck.cookie);
+    expect(body.sessions.map((s: { id: number }) => s.id)).toContain(sessionId);
+    const written = body.entries.filter((e: { sessionId: number | null }) => e.sessionId === sessionId);
+    expect(written.map((e: { subject: string; action: string }) => `${e.subject} ${e.action}`).sort())
+      .toEqual(expect.arrayContaining(['line-set update', 'piece delete', 'piece delete', 'bridge-stock update']));
+    expect(written[0]).toMatchObject({ personName: 'Jo Castellan', sessionTitle: expect.any(String), via: 'loading session' });
+    await expect(t.db.query('DELETE FROM schedule_change')).rejects.toThrow(/denied/i);
+  });
+
   it('lets the application account append to the log but never change or delete it', async () => {
     await expect(t.db.query('UPDATE session_event SET kind = ? WHERE session_id = ?', ['forged', sessionId])).rejects.toThrow(/denied/i);
     await expect(t.db.query('DELETE FROM session_event WHERE session_id = ?', [sessionId])).rejects.toThrow(/denied/i);
