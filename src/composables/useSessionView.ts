@@ -15,9 +15,17 @@ import type { Units } from '@shared/rigging';
 /** "10 ft" or "3 m": the distance to keep from the rail while the loaders work (TRADE.md). */
 export const railDistance = (units: Units) => (units === 'imperial' ? '10 ft' : '3 m');
 
-export const railClearCaution = (units: Units) =>
-  `Stand at least ${railDistance(units)} away from the rail and out from under the gallery, and keep watch.`;
-export const TIE_OFF_CAUTION = 'Never leave a tie-off unattended.';
+/**
+ * While the loaders work, nobody is at the rail or under the gallery; the rail operator still keeps
+ * the tie-off attended, by watching it (and the rail) from that distance (TRADE.md, people and calls).
+ * One sentence says both, so the two rules never read as contradicting each other.
+ */
+export const railClearCaution = (units: Units, tiedOff = false) =>
+  tiedOff
+    ? `Watch the rail and the tie-off from at least ${railDistance(units)} away, out from under the gallery: nobody is at the rail or under the gallery while the loaders work.`
+    : `Stand at least ${railDistance(units)} away from the rail and out from under the gallery, and keep watch: nobody is at the rail or under the gallery while the loaders work.`;
+/** At the rail with a tie-off on (before the rail is cleared, or after loading complete). */
+export const TIE_OFF_CAUTION = 'Stay with the tie-off: it is never left unattended.';
 
 /**
  * What one person's screen reads from the session state: the line set in hand, what they may do

@@ -100,9 +100,9 @@ describe('RailActionPanel', () => {
     expect(w.emitted('act')).toEqual([[{ type: 'confirm-rail-clear' }]]);
   });
 
-  it('offers nothing at the rail while the rail is clear for loading', () => {
+  it('offers nothing at the rail while the rail is clear for loading, only ending the session early', () => {
     const w = panel(RailActionPanel, railClear(), jo.personId);
-    expect(buttonLabels(w)).toEqual([]);
+    expect(buttonLabels(w)).toEqual(['End the session early…']);
     expect(w.get('[data-testid="caution"]').text()).toContain('10 ft');
   });
 

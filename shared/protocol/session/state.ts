@@ -276,3 +276,25 @@ export function crewShortfall(state: SessionState): Array<{ role: 'rail' | 'load
   }
   return short;
 }
+
+/** A role the plan needs for some step while nobody joined holds it, with the line sets that need it. */
+export interface MissingStepRole {
+  role: 'loader' | 'deck';
+  lineSetNames: string[];
+}
+
+/**
+ * The roles nobody joined can act in although a step still to do needs them: bricks need a loader,
+ * pieces the deck crew. Beginning without them would leave the crew waiting on a step nobody can do.
+ */
+export function missingStepRoles(state: SessionState): MissingStepRole[] {
+  const missing: MissingStepRole[] = [];
+  for (const role of ['loader', 'deck'] as const) {
+    if (state.participants.some((p) => p.role === role)) continue;
+    const needs = (step: PlanStep) => (role === 'loader' ? isBrickStep(step) : step.kind === 'remove-piece' || step.kind === 'add-piece');
+    const lineSetNames = state.lineSets.filter((ls) => ls.steps.some((step, i) => !ls.done[i] && needs(step))).map((ls) => ls.name);
+    if (lineSetNames.length) missing.push({ role, lineSetNames });
+  }
+  return missing;
+}
+

@@ -139,7 +139,11 @@ export function nextStepFor(state: SessionState, personId: number): NextStep {
     case 'call-clear-rail':
       return say('Call to clear the rail.');
     case 'confirm-rail-clear':
-      return say('Step at least 10 ft back from the rail and out from under the gallery, keep watch, then confirm.');
+      return say(
+        ls?.tiedOff
+          ? 'Step at least 10 ft back from the rail and out from under the gallery, watch the rail and the tie-off from there, then confirm.'
+          : 'Step at least 10 ft back from the rail and out from under the gallery, keep watch, then confirm.',
+      );
     case 'confirm-step': {
       const i = nextWorkStepIndex(ls!);
       return say(`${capital(stepText(ls!, i))}, then confirm.`, i);
@@ -156,7 +160,11 @@ export function nextStepFor(state: SessionState, personId: number): NextStep {
       );
     default: {
       if (me.role === 'rail' && ls?.stage === 'rail-clear') {
-        return say('Stay at least 10 ft back from the rail and keep watch until the loaders call "loading complete".');
+        return say(
+          ls.tiedOff
+            ? 'Watch the rail and the tie-off from at least 10 ft back, out from under the gallery, until the loaders call "loading complete".'
+            : 'Stay at least 10 ft back from the rail and keep watch until the loaders call "loading complete".',
+        );
       }
       return say(`Wait. ${waitingOn(state).text}`);
     }
@@ -263,8 +271,12 @@ export function describeEntry(entry: DescribableEntry, state?: SessionState, uni
       return `${who} released the hold.`;
     case 'note':
       return `${who} noted: "${d.text}".`;
-    case 'ended':
-      return `${who} ended the session: "${d.reason}".`;
+    case 'ended': {
+      const left = Array.isArray(d.leftAs)
+        ? d.leftAs.map((l: { name: string; outcome: string }) => ` ${capital(lineSetLabel(l.name))}: ${l.outcome}.`).join('')
+        : '';
+      return `${who} ended the session: "${d.reason}".${left}`;
+    }
     case 'finished':
       return 'Every line set is tested in balance: the session is finished.';
     case 're-alerted': {

@@ -9,9 +9,11 @@ import {
   activeLineSet,
   crewShortfall,
   isBrickStep,
+  missingStepRoles,
   nextWorkStepIndex,
   notYetClear,
   type Hold,
+  type MissingStepRole,
   type LineSetState,
   type SessionState,
 } from './state';
@@ -149,6 +151,14 @@ export function sessionDuty(state: SessionState): string {
   if (state.phase === 'finished') return 'Nothing more: the session has finished';
   if (state.phase === 'gathering') {
     if (state.leadPersonId === null) return 'A rail operator must join to lead the session';
+    const missing = missingStepRoles(state);
+    if (missing.length) {
+      const parts = missing.map(({ role, lineSetNames }) => {
+        const sets = nameList(lineSetNames.map(lineSetLabel));
+        return role === 'loader' ? `a loader for the brick steps on ${sets}` : `a deck crew member for the deck steps on ${sets}`;
+      });
+      return capital(parts.join(', and ')).replace(/^(A loader|A deck crew member)/, '$1 must join');
+    }
     const short = crewShortfall(state);
     if (short.length) {
       return `The crew must join (${shortText(short)}), or the lead must begin short with a reason`;
@@ -165,4 +175,31 @@ export function shortText(short: ReturnType<typeof crewShortfall>): string {
   return short
     .map(({ role, need, joined }) => `need ${need} ${ROLE_LABELS[role].toLowerCase()}${need > 1 && role !== 'deck' ? 's' : ''}, ${joined} joined`)
     .join('; ');
+}
+
+/** "Nobody joined can do the deck steps (hanging or taking off pieces on line set 7): a deck crew member must join." */
+export function missingStepRolesText(missing: MissingStepRole[]): string {
+  return missing
+    .map(({ role, lineSetNames }) => {
+      const sets = nameList(lineSetNames.map(lineSetLabel));
+      return role === 'deck'
+        ? `Nobody joined can do the deck steps (hanging or taking off pieces on ${sets}): a deck crew member must join.`
+        : `Nobody joined can do the loaders' steps (bricks on ${sets}): a loader must join.`;
+    })
+    .join(' ');
+}
+
+/** What state a line set was left in when the session finished, in words for every screen and the log. */
+export function lineSetOutcome(ls: LineSetState): string {
+  const last = ls.tests.at(-1);
+  const tie = ls.tiedOff ? ', tied off at the rail' : '';
+  if (last && ls.stage === 'tested') {
+    return last.result === 'balanced' ? 'tested in balance' : `tested ${last.result}, flagged to be corrected${tie}`;
+  }
+  if (!ls.done.some(Boolean) && ls.stage === 'waiting') return 'not started: its load is unchanged';
+  if (!ls.done.some(Boolean)) return `not worked (${ls.stage === 'move-called' ? 'called, not yet in position' : 'in position, nothing loaded'}): its load is unchanged${tie}`;
+  const left = ls.steps.filter((s, i) => !ls.done[i] && (s.kind !== 'test-balance')).length;
+  return left > 0
+    ? `stopped part way (${left} step${left === 1 ? '' : 's'} not done), not tested: flagged${tie}`
+    : `worked but not tested: flagged${tie}`;
 }

@@ -2,7 +2,7 @@
  * What may happen at any stage: holds, notes, and the lead ending the session.
  */
 import { activeLineSet } from '../state';
-import { lineSetLabel } from '../words';
+import { lineSetOutcome } from '../words';
 import { alreadyDone, lineSetRef, refuse, type RulesFor } from './common';
 
 export const ANYTIME_RULES: RulesFor<'call-hold' | 'ack-hold' | 'release-hold' | 'note' | 'end'> = {
@@ -70,20 +70,15 @@ export const ANYTIME_RULES: RulesFor<'call-hold' | 'ack-hold' | 'release-hold' |
     who: 'lead',
     atRail: false,
     apply({ state, action, nowMs }) {
-      // Not while loaders handle steel: the log would stop with a set half loaded. Hold first, finish, then end.
-      const working = activeLineSet(state);
-      if (working && (working.stage === 'rail-clear-called' || working.stage === 'rail-clear')) {
-        return {
-          ok: false,
-          code: 'refused',
-          reason: `The loaders are working on ${lineSetLabel(working.name)}: they call "loading complete" first (call a hold to stop them now).`,
-          lineSetId: working.id,
-        };
-      }
+      // At any moment, also while loaders work or a hold is on: what each set was left in goes into the log,
+      // and the server writes back and flags every set worked but not tested.
       state.phase = 'finished';
       state.endedAtMs = nowMs;
       state.endedHow = 'ended';
       state.endReason = action.reason;
+      state.hold = null;
+      // Worked but not tested: nobody checked its balance, so it is flagged like a set found out of balance.
+      for (const l of state.lineSets) if (l.stage !== 'tested' && l.done.some(Boolean)) l.flagged = true;
       return {
         ok: true,
         entries: [
@@ -93,6 +88,7 @@ export const ANYTIME_RULES: RulesFor<'call-hold' | 'ack-hold' | 'release-hold' |
               reason: action.reason,
               untested: state.lineSets.filter((l) => l.stage !== 'tested').map((l) => l.name),
               flagged: state.lineSets.filter((l) => l.flagged).map((l) => l.name),
+              leftAs: state.lineSets.map((l) => ({ lineSetId: l.id, name: l.name, outcome: lineSetOutcome(l) })),
             },
           },
         ],

@@ -2,8 +2,8 @@
  * Before loading: joining, leaving, and the lead beginning with the crew there.
  */
 import { ROLE_LABELS } from '../../roles';
-import { crewShortfall, participantOf } from '../state';
-import { shortText } from '../words';
+import { crewShortfall, missingStepRoles, participantOf } from '../state';
+import { missingStepRolesText, shortText } from '../words';
 import { alreadyDone, forbid, refuse, type RulesFor } from './common';
 
 export const GATHERING_RULES: RulesFor<'join' | 'leave' | 'begin'> = {
@@ -55,6 +55,9 @@ export const GATHERING_RULES: RulesFor<'join' | 'leave' | 'begin'> = {
     atRail: false,
     apply({ state, action, nowMs }) {
       if (state.phase !== 'gathering') return alreadyDone('Loading has already begun.');
+      // A reason to begin short never covers a step nobody joined can do: the crew would wait on it forever.
+      const missing = missingStepRoles(state);
+      if (missing.length) return refuse(missingStepRolesText(missing));
       const short = crewShortfall(state);
       if (short.length && !action.shortCrewReason) {
         return refuse(`The minimum crew has not joined (${shortText(short)}): wait for them, or give a reason to begin short.`);

@@ -4,7 +4,10 @@ import {
   SessionPlanError,
   createSessionState,
   decide,
+  allowedActions,
+  describeEntry,
   notYetClear,
+  waitingOn,
 } from '@shared/protocol/session';
 import type { PlanStep } from '@shared/rigging';
 import { Session, alex, jo, kit, lee, robin, sam, trussLineSet, twoDrapeLineSet, ROPE_LOCK_LIMIT_KG } from './fixtures';
@@ -117,10 +120,11 @@ describe('beginning', () => {
     const s = new Session();
     s.do(jo, { type: 'join', role: 'rail' });
     s.do(sam, { type: 'join', role: 'loader' });
+    s.do(robin, { type: 'join', role: 'deck' });
     const r = s.refused(jo, { type: 'begin' });
     expect(r.code).toBe('refused');
     expect(r.reason).toBe(
-      'The minimum crew has not joined (need 2 loaders, 1 joined; need 1 deck crew, 0 joined): wait for them, or give a reason to begin short.',
+      'The minimum crew has not joined (need 2 loaders, 1 joined): wait for them, or give a reason to begin short.',
     );
     const d = s.do(jo, { type: 'begin', shortCrewReason: 'Deck crew on the fly floor phone' });
     expect(d.entries[0]).toMatchObject({ kind: 'began', details: { shortCrewReason: 'Deck crew on the fly floor phone' } });
@@ -128,9 +132,10 @@ describe('beginning', () => {
   });
 
   it('follows the session setting for the minimum crew', () => {
-    const s = new Session([twoDrapeLineSet], { minCrew: { rail: 1, loader: 1, deck: 0 } });
+    const s = new Session([twoDrapeLineSet], { minCrew: { rail: 1, loader: 1, deck: 1 } });
     s.do(jo, { type: 'join', role: 'rail' });
     s.do(sam, { type: 'join', role: 'loader' });
+    s.do(robin, { type: 'join', role: 'deck' });
     s.do(jo, { type: 'begin' });
     expect(s.state.phase).toBe('loading');
   });
@@ -380,7 +385,6 @@ describe('holds', () => {
       [sam, { type: 'confirm-step', stepIndex: 0 }],
       [robin, { type: 'note', text: 'ok' }],
       [alex, { type: 'call-hold' }],
-      [jo, { type: 'end', reason: 'stop' }],
       [sam, { type: 'leave' }],
     ] as const) {
       expect(s.refused(actor, action)).toMatchObject({ code: 'refused', reason: holdOn });
@@ -410,6 +414,26 @@ describe('holds', () => {
   });
 });
 
+describe('beginning needs someone for every kind of step', () => {
+  it('refuses to begin with no deck crew when the plan has deck steps, even with a reason, naming who is missing', () => {
+    const s = new Session();
+    for (const [p, role] of [[jo, 'rail'], [sam, 'loader'], [alex, 'loader']] as const) s.do(p, { type: 'join', role });
+    const r = s.refused(jo, { type: 'begin', shortCrewReason: 'Robin is late' });
+    expect(r.reason).toBe('Nobody joined can do the deck steps (hanging or taking off pieces on line set 7): a deck crew member must join.');
+    expect(allowedActions(s.state, jo.personId)).not.toContain('begin');
+    expect(waitingOn(s.state).text).toBe('A deck crew member must join for the deck steps on line set 7.');
+    s.do(robin, { type: 'join', role: 'deck' });
+    s.do(jo, { type: 'begin' });
+  });
+
+  it('refuses to begin with no loader when the plan moves bricks', () => {
+    const s = new Session();
+    s.do(jo, { type: 'join', role: 'rail' });
+    s.do(robin, { type: 'join', role: 'deck' });
+    expect(s.refused(jo, { type: 'begin', shortCrewReason: 'short' }).reason).toMatch(/a loader must join/);
+  });
+});
+
 describe('ending and re-alerts', () => {
   it('lets the lead end with a reason, listing what was left untested', () => {
     const s = new Session().joinCrew();
@@ -420,9 +444,23 @@ describe('ending and re-alerts', () => {
     expect(s.refused(jo, { type: 'note', text: 'after' }).reason).toBe('The session has finished.');
   });
 
-  it('refuses ending while the loaders handle steel: they finish (or a hold stops them) first', () => {
-    const s = new Session().toRailClear();
-    expect(s.refused(jo, { type: 'end', reason: 'Out of time' }).reason).toMatch(/loading complete/);
+  it('lets the lead end at any moment, also while the loaders work and during a hold, saying what each set was left in', () => {
+    const s = new Session([twoDrapeLineSet, trussLineSet]).toRailClear();
+    s.do(sam, { type: 'confirm-step', stepIndex: 0 });
+    s.do(kit, { type: 'call-hold', reason: 'Loose brick' });
+    const d = s.do(jo, { type: 'end', reason: 'Out of time' });
+    expect(s.state).toMatchObject({ phase: 'finished', endedHow: 'ended', hold: null });
+    expect(s.state.lineSets.map((l) => l.flagged)).toEqual([true, false]);
+    expect(d.entries[0].details).toMatchObject({
+      flagged: ['7'],
+      leftAs: [
+        { name: '7', outcome: 'stopped part way (3 steps not done), not tested: flagged' },
+        { name: '12', outcome: 'not started: its load is unchanged' },
+      ],
+    });
+    expect(describeEntry({ ...d.entries[0], personName: 'Jo Castellan' })).toBe(
+      'Jo Castellan ended the session: "Out of time". Line set 7: stopped part way (3 steps not done), not tested: flagged. Line set 12: not started: its load is unchanged.',
+    );
   });
 
   it('accepts re-alert only from Railcall itself, for people still silent', () => {

@@ -74,7 +74,12 @@ describe('waitingOn', () => {
     expect(waitingOn(s.state).text).toBe('A rail operator must join to lead the session.');
     s.do(jo, { type: 'join', role: 'rail' });
     expect(waitingOn(s.state).text).toBe(
-      'The crew must join (need 2 loaders, 0 joined; need 1 deck crew, 0 joined), or the lead must begin short with a reason.',
+      'A loader must join for the brick steps on line set 7, and a deck crew member for the deck steps on line set 7.',
+    );
+    s.do(sam, { type: 'join', role: 'loader' });
+    s.do(robin, { type: 'join', role: 'deck' });
+    expect(waitingOn(s.state).text).toBe(
+      'The crew must join (need 2 loaders, 1 joined), or the lead must begin short with a reason.',
     );
   });
 
@@ -93,6 +98,8 @@ describe('allowedActions and nextStepFor', () => {
   it('offers begin to the lead when short (a reason will be asked for)', () => {
     const s = new Session();
     s.do(jo, { type: 'join', role: 'rail' });
+    s.do(sam, { type: 'join', role: 'loader' });
+    s.do(robin, { type: 'join', role: 'deck' });
     expect(allowedActions(s.state, jo.personId)).toContain('begin');
     expect(nextStepFor(s.state, jo.personId).text).toBe('The minimum crew has not joined: wait, or begin short with a reason.');
   });
@@ -102,7 +109,7 @@ describe('allowedActions and nextStepFor', () => {
     s.do(robin, { type: 'call-hold' });
     expect(allowedActions(s.state, sam.personId)).toEqual(['ack-hold']);
     expect(allowedActions(s.state, robin.personId)).toEqual([]);
-    expect(allowedActions(s.state, jo.personId)).toEqual(['ack-hold', 'release-hold']);
+    expect(allowedActions(s.state, jo.personId)).toEqual(['ack-hold', 'release-hold', 'end']);
     expect(nextStepFor(s.state, sam.personId).text).toMatch(/Acknowledge it\.$/);
     expect(allowedActions(s.state, 99)).toEqual([]);
   });
