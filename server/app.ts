@@ -25,7 +25,7 @@ import { practiceRoutes } from './features/practice/practice.routes';
 import { RecordService } from './features/record/record.service';
 import { recordRoutes } from './features/record/record.routes';
 import { ScheduleEditor } from './features/schedule/schedule-edit.service';
-import { createIo, endSignIn, type RailcallServer } from './realtime/io';
+import { createIo, endSignIn, venueChosen, type RailcallServer } from './realtime/io';
 import { SessionsService } from './features/sessions/sessions.service';
 import { sessionRoutes } from './features/sessions/sessions.routes';
 import { broadcastCommitted, resyncLocalPhones, sessionSocketFeature, stopWatching } from './features/sessions/sessions.handlers';
@@ -75,6 +75,7 @@ export function createApp({ config, db, logger, redis }: AppDeps): RailcallApp {
       passport,
       throttles: signInThrottles(config),
       onSignedOut: (sessionId) => io && endSignIn(io, sessionId),
+      onVenueChosen: (sessionId, me) => io && venueChosen(io, sessionId, me.venue),
     }),
     ...peopleRoutes(people, (personId) => io && stopWatching(io, personId)),
     ...scheduleRoutes(schedule, editor),
@@ -128,7 +129,8 @@ export function createApp({ config, db, logger, redis }: AppDeps): RailcallApp {
   }
   app.use(errorHandler(logger, config.jsonLimit));
 
-  io = createIo(httpServer, session.middleware, passport, [sessionSocketFeature(sessions, presence, logger)], config.sessionAbsoluteMs, redis && redisAdapter(redis));
+  io = createIo(httpServer, session.middleware, passport, [sessionSocketFeature(sessions, presence, logger)], config.sessionAbsoluteMs, redis && redisAdapter(redis),
+    (personId, venueId) => people.loadUser(personId, venueId));
   // Broadcasts from other processes may have been lost while Redis was away: phones here check what they hold.
   const onRedisBack = () => void resyncLocalPhones(io!, sessions).catch((error) => logger.warn({ err: error }, 'resync after Redis failed'));
   redis?.on('ready', onRedisBack);

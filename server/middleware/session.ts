@@ -9,6 +9,8 @@ declare module 'express-session' {
   interface SessionData {
     /** When this sign-in began: sign-ins end after an absolute lifetime whatever the activity. */
     signedInAt?: number;
+    /** The venue this sign-in acts on (PUT /api/me/venue); checked against the person's roles on every request. */
+    venueId?: number;
   }
 }
 

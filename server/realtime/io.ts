@@ -4,6 +4,7 @@ import type { PassportStatic } from 'passport';
 import { Server, type ServerOptions, type Socket } from 'socket.io';
 import { CLIENT_EVENTS, type ClientToServerEvents, type ServerToClientEvents } from '@shared/protocol/events';
 import type { SignedInUser } from '../features/people/people.service';
+import type { VenueSummary } from '@shared/protocol/people';
 
 export interface SocketData {
   user: SignedInUser;
@@ -17,7 +18,45 @@ export type RailcallSocket = Socket<ClientToServerEvents, ServerToClientEvents, 
 /** A feature that serves socket events registers its handlers through one of these. */
 export type SocketFeature = (io: RailcallServer, socket: RailcallSocket) => void;
 
-type EngineRequest = IncomingMessage & { _query: Record<string, string>; user?: SignedInUser; sessionID?: string; session?: { signedInAt?: number } };
+type EngineRequest = IncomingMessage & {
+  _query: Record<string, string>;
+  user?: SignedInUser;
+  sessionID?: string;
+  session?: { signedInAt?: number; venueId?: number; reload(done: (error?: unknown) => void): void };
+};
+
+/** Loads a signed-in person acting on the venue they chose (PeopleService.loadUser). */
+export type LoadUser = (personId: number, wantedVenueId?: number | null) => Promise<SignedInUser | null>;
+
+const ownRooms = (socket: RailcallSocket) => new Set([socket.id, sessionRoom(socket.data.sessionId), personRoom(socket.data.user.id)]);
+
+/**
+ * Before every event: the sign-in is read again from the store, so a venue chosen in another tab (or on
+ * another server) applies to this socket's next event, and an ended sign-in ends the socket.
+ */
+async function followSignIn(socket: RailcallSocket, loadUser: LoadUser): Promise<boolean> {
+  const req = socket.request as EngineRequest;
+  if (!req.session) return true;
+  const session = req.session;
+  const alive = await new Promise<boolean>((resolve) => session.reload((error) => resolve(!error)));
+  // reload() puts a fresh session object on the request.
+  const wanted = alive ? req.session.venueId : undefined;
+  if (!alive || (wanted !== undefined && wanted !== socket.data.user.venueId)) {
+    const fresh = alive ? await loadUser(socket.data.user.id, wanted) : null;
+    if (!fresh) {
+      socket.emit('auth:signed-out');
+      socket.disconnect(true);
+      return false;
+    }
+    if (fresh.venueId !== socket.data.user.venueId) {
+      // Nothing of the venue left behind keeps streaming to this socket.
+      const keep = ownRooms(socket);
+      for (const room of socket.rooms) if (!keep.has(room)) void socket.leave(room);
+    }
+    socket.data.user = fresh;
+  }
+  return true;
+}
 
 /** Session middleware runs on the handshake request only, not on every polling request. */
 function onlyForHandshake(middleware: RequestHandler) {
@@ -34,7 +73,7 @@ export const personRoom = (personId: number) => `person:${personId}`;
  * Socket.IO shares the Express sign-in (the documented pattern: express-session and passport
  * on the engine's handshake). A handshake without a signed-in person is refused with 401.
  */
-export function createIo(httpServer: HttpServer, session: RequestHandler, passport: PassportStatic, features: SocketFeature[], signInLifetimeMs = Infinity, adapter?: ServerOptions['adapter']): RailcallServer {
+export function createIo(httpServer: HttpServer, session: RequestHandler, passport: PassportStatic, features: SocketFeature[], signInLifetimeMs = Infinity, adapter?: ServerOptions['adapter'], loadUser?: LoadUser): RailcallServer {
   // With several server processes, `adapter` carries broadcasts and room queries between them (Redis Streams).
   const io: RailcallServer = new Server(httpServer, { serveClient: false, maxHttpBufferSize: 64 * 1024, ...(adapter ? { adapter } : {}) });
   io.engine.use(onlyForHandshake(session));
@@ -54,8 +93,9 @@ export function createIo(httpServer: HttpServer, session: RequestHandler, passpo
     void socket.join([sessionRoom(socket.data.sessionId), personRoom(socket.data.user.id)]);
     // Deny by default: an event no feature serves is dropped before any handler sees it.
     socket.use(([event], next) => {
-      if ((CLIENT_EVENTS as readonly string[]).includes(event)) next();
-      else next(new Error(`Unknown event: ${String(event).slice(0, 40)}`));
+      if (!(CLIENT_EVENTS as readonly string[]).includes(event)) return next(new Error(`Unknown event: ${String(event).slice(0, 40)}`));
+      if (!loadUser) return next();
+      followSignIn(socket, loadUser).then((open) => (open ? next() : next(new Error('Signed out'))), next);
     });
     socket.on('error', () => {});
     // A socket ends with its sign-in's absolute lifetime, however active it is.
@@ -71,6 +111,11 @@ export function createIo(httpServer: HttpServer, session: RequestHandler, passpo
     for (const feature of features) feature(io, socket);
   });
   return io;
+}
+
+/** A venue was chosen in one tab: every socket of that sign-in is told (the next event acts on it anyway). */
+export function venueChosen(io: RailcallServer, sessionId: string, venue: VenueSummary): void {
+  io.in(sessionRoom(sessionId)).emit('me:venue-changed', { venue });
 }
 
 /** Sign-out: tell the sockets of that sign-in, then close them. */

@@ -4,10 +4,13 @@
  */
 import type { SessionClientToServerEvents, SessionServerToClientEvents } from './session/events';
 import type { PresenceEntry } from './sessions-api';
+import type { VenueSummary } from './people';
 
 export interface ServerToClientEvents extends SessionServerToClientEvents {
   /** Sent to every socket of a sign-in just before the server disconnects them at sign-out. */
   'auth:signed-out': () => void;
+  /** Sent to every socket of a sign-in when one of its tabs switched venue: reload what is shown. */
+  'me:venue-changed': (payload: { venue: VenueSummary }) => void;
   /** Who has the session open now, after someone connects or drops. */
   'session:presence': (payload: { sessionId: number; presence: PresenceEntry[] }) => void;
 }

@@ -39,9 +39,19 @@ export interface Me {
   id: number;
   name: string;
   email: string;
+  /** The venue the person acts on now (every route and socket event works on this one). */
   venue: VenueSummary;
+  /** Their roles at that venue. */
   roles: Role[];
+  /** Every venue they hold a role at, to switch between (the menu). */
+  venues: (VenueSummary & { roles: Role[] })[];
 }
+
+/** `PUT /api/me/venue`: act on another venue where the person holds a role. */
+export const chooseVenueSchema = z.object({
+  venueId: z.coerce.number().int().positive('Choose a venue'),
+});
+export type ChooseVenueInput = z.infer<typeof chooseVenueSchema>;
 
 export interface PersonRow {
   id: number;

@@ -27,6 +27,9 @@ export const signOut = () => http.post<void>('/api/auth/sign-out');
 export const acceptInvite = (token: string, password: string) =>
   http.post<Me>('/api/auth/accept-invite', { token, password });
 
+/** Act on another venue where the person holds a role; the server checks it and answers the new Me. */
+export const chooseVenue = (venueId: number) => http.put<Me>('/api/me/venue', { venueId });
+
 export const listPeople = () => http.get<{ people: PersonRow[] }>('/api/people');
 export const addPerson = (input: AddPersonInput) => http.post<AddPersonResult>('/api/people', input);
 export const setPersonRoles = (id: number, roles: Role[]) =>

@@ -68,6 +68,13 @@ export const useAuthStore = defineStore('auth', () => {
     return person;
   }
 
+  /** Switches the venue this sign-in acts on (every tab of it follows). */
+  async function chooseVenue(venueId: number): Promise<Me> {
+    const person = await api.chooseVenue(venueId);
+    become(person);
+    return person;
+  }
+
   async function signOut(): Promise<void> {
     try {
       await api.signOut();
@@ -83,6 +90,8 @@ export const useAuthStore = defineStore('auth', () => {
     become(null);
     void forgetEverything();
   });
+  // Another tab of this sign-in switched venue: show the venue it chose here too.
+  socket.on('me:venue-changed', () => void load().catch(() => undefined));
   // The server refused the live connection (e.g. the session expired): check who we still are.
   // Back online after opening from the cache: ask who we are for real.
   socket.on('connect', () => {
@@ -92,5 +101,5 @@ export const useAuthStore = defineStore('auth', () => {
     if (!socket.active && me.value) void load().catch(() => undefined);
   });
 
-  return { me, fromCache, loaded, signedIn, roles, homeRoute, roleHomes, hasRole, load, signIn, acceptInvite, signOut };
+  return { me, fromCache, loaded, signedIn, roles, homeRoute, roleHomes, hasRole, load, signIn, acceptInvite, chooseVenue, signOut };
 });

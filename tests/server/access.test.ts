@@ -25,6 +25,8 @@ interface Ctx {
   /** A throwaway row made for a delete: a line set, a piece on line set 30, or a brick type. */
   scratch(kind: 'line-set' | 'piece' | 'brick-type'): Promise<number>;
   brickTypeId: number;
+  /** The Larkspur Playhouse, where every signed-in agent of the table works. */
+  venueId: number;
 }
 interface Case {
   /** Who gets through; everyone else gets 401 (nobody) or 403. */
@@ -34,6 +36,12 @@ interface Case {
   otherwise?: Partial<Record<Who, number>>;
   /** A request that is valid when allowed. */
   send(agent: Agent, ctx: Ctx): request.Test | Promise<request.Response>;
+  /**
+   * Sent with this venue's ids by someone acting on another venue: the status expected, or 'own' when
+   * the route carries no id of this venue and answers about the caller's own venue (checked apart).
+   * Default: 404 for a path with an id, 'own' otherwise.
+   */
+  otherVenue?: number | 'own';
 }
 
 /** Every API route: the test fails when a route exists that this table does not list. */
@@ -48,6 +56,11 @@ const TABLE: Record<string, Case> = {
     send: (a) => a.post('/api/auth/accept-invite').send({ token: 'x'.repeat(43), password: 'a long enough password' }),
   },
   'get /me': { allowed: EVERYONE, okStatus: 200, send: (a) => a.get('/api/me') },
+  'put /me/venue': {
+    // Choosing the venue one already acts on; another venue's id is answered 404 (below).
+    allowed: EVERYONE, okStatus: 200, otherVenue: 404,
+    send: (a, c) => a.put('/api/me/venue').send({ venueId: c.venueId }),
+  },
   'get /people': { allowed: ['admin'], okStatus: 200, send: (a) => a.get('/api/people') },
   'post /people': {
     allowed: ['admin'], okStatus: 201,
@@ -133,7 +146,7 @@ const TABLE: Record<string, Case> = {
     send: (a, c) => a.put(`/api/brick-types/${c.brickTypeId}/stock`).send({ bridgeCount: ++counter, reason: 'Counted on the bridge' }),
   },
   'post /sessions': {
-    allowed: ['admin', 'rail'], okStatus: 201,
+    allowed: ['admin', 'rail'], okStatus: 201, otherVenue: 400, // "No such line set at this venue"
     send: (a, c) => a.post('/api/sessions').send({ title: 'Access check', lineSets: [{ lineSetId: c.freeLineSet(), remove: [], add: [] }] }),
   },
   'get /sessions': { allowed: EVERYONE, okStatus: 200, send: (a) => a.get('/api/sessions?active=1') },
@@ -176,6 +189,8 @@ describe('API access by role and venue', () => {
   let freeLineSets: number[];
   let brickTypeId: number;
   let watchedLineSet: number;
+  let larkspurId: number;
+  let anyLineSet: number;
 
   beforeAll(async () => {
     t = await startTestApp();
@@ -185,9 +200,12 @@ describe('API access by role and venue', () => {
       agents[role] ??= await signedIn(t.url, account.email);
     }
     const [deck] = await t.database.owner.query("SELECT id FROM person WHERE email = 'deck@larkspur.example'");
+    const [larkspur] = await t.database.owner.query("SELECT id FROM venue WHERE name = 'Larkspur Playhouse'");
+    larkspurId = larkspur.id;
     deckPersonId = deck.id;
     const sets = await t.database.owner.query('SELECT id FROM line_set ORDER BY number');
     freeLineSets = sets.map((r: { id: number }) => r.id);
+    anyLineSet = freeLineSets[0];
     watchedLineSet = freeLineSets.pop()!;
     const opened = await agents.rail.post('/api/sessions').send({ title: 'Watched', lineSets: [{ lineSetId: watchedLineSet, remove: [], add: [] }] });
     sessionId = opened.body.session.id;
@@ -212,7 +230,7 @@ describe('API access by role and venue', () => {
       lift_line_rating_kg, batten_rating_kg_per_m, arbor_kg, arbor_capacity_kg, bricks) VALUES (?, ?, 'Scratch', 1, '', 10, 4, 40, '[1, 9]', 200, 30, 30, 500, '{}')`,
     [venue.id, 500 + ++counter])).insertId;
   };
-  const ctx = (who: Who): Ctx => ({ personId: deckPersonId, sessionId, lineSetId: watchedLineSet, who, freeLineSet: () => freeLineSets.pop()!, lineSet, scratch, brickTypeId });
+  const ctx = (who: Who): Ctx => ({ personId: deckPersonId, sessionId, lineSetId: watchedLineSet, who, venueId: larkspurId, freeLineSet: () => freeLineSets.pop()!, lineSet, scratch, brickTypeId });
   afterAll(async () => { await t.close(); });
 
   it('lists every route of the app in the table', () => {
@@ -263,6 +281,20 @@ describe('API access by role and venue', () => {
       expect((await other.get('/api/schedule')).body.lineSets).toEqual([]);
     });
 
+    /** What someone acting on another venue gets from every route when sent this venue's ids. */
+    const refusals = (agent: () => Agent, label: string, skip: string[] = []) => {
+      for (const [key, c] of Object.entries(TABLE)) {
+        const expected = c.otherVenue ?? (key.includes(':') ? 404 : 'own');
+        if (expected === 'own' || key === 'post /auth/sign-out' || skip.includes(key)) continue;
+        it(`${key} with a Larkspur id, ${label} -> ${expected}`, async () => {
+          // Any Larkspur line set will do: none of them may be planned from another venue.
+          const res = await c.send(agent(), { ...ctx('admin'), freeLineSet: () => anyLineSet });
+          expect(res.status, JSON.stringify(res.body)).toBe(expected);
+        });
+      }
+    };
+    refusals(() => other, 'as the admin of another venue');
+
     it('cannot change roles of a person at another venue, either way', async () => {
       expect((await other.put(`/api/people/${deckPersonId}/roles`).send({ roles: ['admin'] })).status).toBe(404);
       expect((await agents.admin.put(`/api/people/${otherAdminId}/roles`).send({ roles: [] })).status).toBe(404);
@@ -276,6 +308,30 @@ describe('API access by role and venue', () => {
         expect((await other.get(`/api/record/sessions/${sessionId}${path}`)).status).toBe(404);
       }
       expect((await other.get(`/api/record/line-sets/${watchedLineSet}`)).status).toBe(404);
+    });
+
+    describe('a person at both venues who chose the other one', () => {
+      let both: Agent;
+      beforeAll(async () => {
+        // The Larkspur rail operator also works the deck at Quillfield Hall and switches there.
+        const [quill] = await t.database.owner.query("SELECT id FROM venue WHERE name = 'Quillfield Hall'");
+        const [rail] = await t.database.owner.query("SELECT id FROM person WHERE email = 'rail@larkspur.example'");
+        await t.database.owner.query("INSERT INTO venue_role (venue_id, person_id, role) VALUES (?, ?, 'admin')", [quill.id, rail.id]);
+        both = await signedIn(t.url, 'rail@larkspur.example');
+        const chosen = await both.put('/api/me/venue').send({ venueId: quill.id });
+        expect(chosen.status, JSON.stringify(chosen.body)).toBe(200);
+      });
+
+      it('acts on the chosen venue on the routes without an id', async () => {
+        expect((await both.get('/api/me')).body.venue.name).toBe('Quillfield Hall');
+        expect((await both.get('/api/venue')).body.venue.name).toBe('Quillfield Hall');
+        expect((await both.get('/api/schedule')).body.lineSets).toEqual([]);
+        expect((await both.get('/api/sessions')).body.sessions).toEqual([]);
+        expect((await both.get('/api/people')).body.people.map((p: { email: string }) => p.email)).not.toContain('deck@larkspur.example');
+      });
+
+      // Choosing Larkspur back is allowed for this person (tests/server/venues.test.ts): the one route not refused.
+      refusals(() => both, 'as a person of both venues acting on the other', ['put /me/venue']);
     });
   });
 });

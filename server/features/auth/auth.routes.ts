@@ -1,6 +1,6 @@
 import type { Request } from 'express';
 import type { PassportStatic } from 'passport';
-import { acceptInviteSchema, signInSchema } from '@shared/protocol/people';
+import { acceptInviteSchema, chooseVenueSchema, signInSchema, type Me } from '@shared/protocol/people';
 import { HttpError } from '../../middleware/http-error';
 import { SESSION_COOKIE } from '../../middleware/session';
 import { route, type RouteSpec } from '../../middleware/routes';
@@ -13,6 +13,8 @@ export interface AuthRouteDeps {
   throttles: RequestHandler[];
   /** Called after a sign-out with the ended session's id, to disconnect its sockets. */
   onSignedOut(sessionId: string): void;
+  /** Called after a sign-in switched venue, to tell its other tabs. */
+  onVenueChosen(sessionId: string, me: Me): void;
 }
 
 /** passport 0.7 regenerates the session id inside logIn: a stolen pre-sign-in cookie is worth nothing. */
@@ -83,6 +85,25 @@ export function authRoutes(deps: AuthRouteDeps): RouteSpec[] {
       path: '/me',
       access: { roles: 'any' },
       handler: ({ user }) => deps.people.me(user),
+    }),
+    route({
+      method: 'put',
+      path: '/me/venue',
+      access: { roles: 'any' },
+      body: chooseVenueSchema,
+      async handler({ req, user, body }) {
+        // Checked against the roles held now: only a venue where the person works can be chosen.
+        const chosen = await deps.people.loadUser(user.id, body.venueId);
+        if (!chosen || chosen.venueId !== body.venueId) {
+          throw new HttpError('not-found', 'You hold no role at that venue.', { venueId: ['You hold no role at that venue'] });
+        }
+        req.session.venueId = chosen.venueId;
+        await new Promise<void>((resolve, reject) => req.session.save((e) => (e ? reject(e) : resolve())));
+        req.user = chosen;
+        const me = await deps.people.me(chosen);
+        deps.onVenueChosen(req.sessionID, me);
+        return me;
+      },
     }),
   ];
 }

@@ -1,3 +1,4 @@
+import type { Request } from 'express';
 import passport from 'passport';
 import { Strategy as LocalStrategy } from 'passport-local';
 import type { PeopleService, SignedInUser } from '../people/people.service';
@@ -25,9 +26,10 @@ export function createPassport(people: PeopleService): passport.PassportStatic {
     })().catch(done);
   }));
   instance.serializeUser((user, done) => done(null, (user as SignedInUser).id));
-  instance.deserializeUser((id: number, done) => {
-    // A person whose roles were all removed is signed out on their next request.
-    people.loadUser(id).then((user) => done(null, user ?? false), done);
+  instance.deserializeUser((req: Request, id: number, done: (error: unknown, user?: SignedInUser | false) => void) => {
+    // A person whose roles were all removed is signed out on their next request; the venue they act on
+    // is the one chosen in this sign-in while they still hold a role there (resolveVenue).
+    people.loadUser(id, req.session?.venueId).then((user) => done(null, user ?? false), done);
   });
   return instance;
 }

@@ -7,14 +7,19 @@ import { Venue } from '../venue/venue.entity';
 import { Person } from './person.entity';
 import { VenueRole } from './venue-role.entity';
 import { hashPassword } from '../auth/password';
+import { resolveVenue } from '../venue/venue-access';
 
 /** What the server knows of a signed-in person on every request. */
 export interface SignedInUser {
   id: number;
   name: string;
   email: string;
+  /** The venue every request and socket event of this person acts on (their chosen one). */
   venueId: number;
+  /** Their roles at that venue. */
   roles: Role[];
+  /** Every venue they hold a role at. */
+  venueIds: number[];
 }
 
 const INVITE_DAYS = 7;
@@ -24,19 +29,22 @@ const sortRoles = (roles: Role[]) => [...new Set(roles)].sort((a, b) => ROLES.in
 export class PeopleService {
   constructor(private readonly db: DataSource) {}
 
-  /** The person with the venue they work at and their roles there; null if they hold no role anywhere. */
-  async loadUser(personId: number): Promise<SignedInUser | null> {
+  /**
+   * The person with the venue they act on and their roles there; null if they hold no role anywhere.
+   * `wantedVenueId` is the venue they chose (see resolveVenue); without a role there, their first venue.
+   */
+  async loadUser(personId: number, wantedVenueId?: number | null): Promise<SignedInUser | null> {
     const person = await this.db.getRepository(Person).findOneBy({ id: personId });
     if (!person) return null;
-    const roles = await this.db.getRepository(VenueRole).find({ where: { personId }, order: { venueId: 'ASC' } });
-    if (roles.length === 0) return null;
-    const venueId = roles[0].venueId;
+    const choice = await resolveVenue(this.db, personId, wantedVenueId);
+    if (!choice) return null;
     return {
       id: person.id,
       name: person.name,
       email: person.email,
-      venueId,
-      roles: sortRoles(roles.filter((r) => r.venueId === venueId).map((r) => r.role)),
+      venueId: choice.venueId,
+      roles: choice.roles,
+      venueIds: choice.venues.map((v) => v.venueId),
     };
   }
 
@@ -45,13 +53,21 @@ export class PeopleService {
   }
 
   async me(user: SignedInUser): Promise<Me> {
-    const venue = await this.db.getRepository(Venue).findOneByOrFail({ id: user.venueId });
+    const choice = await resolveVenue(this.db, user.id, user.venueId);
+    const held = choice?.venues ?? [{ venueId: user.venueId, roles: user.roles }];
+    const rows = await this.db.getRepository(Venue).findBy({ id: In(held.map((v) => v.venueId)) });
+    const summary = (id: number) => {
+      const v = rows.find((r) => r.id === id);
+      if (!v) throw notFound('That venue');
+      return { id: v.id, name: v.name, units: v.units };
+    };
     return {
       id: user.id,
       name: user.name,
       email: user.email,
-      venue: { id: venue.id, name: venue.name, units: venue.units },
+      venue: summary(user.venueId),
       roles: user.roles,
+      venues: held.map((v) => ({ ...summary(v.venueId), roles: v.roles })),
     };
   }
 

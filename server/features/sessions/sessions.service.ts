@@ -133,7 +133,7 @@ export class SessionsService {
 
   /** The person as the database knows them now (roles removed or moved since the socket opened count). */
   async stillAtVenue(user: SignedInUser): Promise<SignedInUser> {
-    const fresh = await this.people.loadUser(user.id);
+    const fresh = await this.people.loadUser(user.id, user.venueId);
     if (!fresh || fresh.venueId !== user.venueId) throw new HttpError('forbidden', 'You no longer hold a role at this venue.');
     return fresh;
   }
@@ -179,7 +179,7 @@ export class SessionsService {
       throw new HttpError('bad-input', `That action is not valid. ${detail}`);
     }
     // The roles held right now, not those at sign-in: a removed role stops working at once.
-    const fresh = await this.people.loadUser(user.id);
+    const fresh = await this.people.loadUser(user.id, user.venueId);
     if (!fresh || fresh.venueId !== user.venueId) throw notFound('That loading session');
     const actor: Actor = { personId: fresh.id, name: fresh.name, venueRoles: fresh.roles };
     return this.decideAndRecord(fresh, sessionId, parsed.data, actor);
@@ -187,7 +187,7 @@ export class SessionsService {
 
   /** Railcall's own action (re-alerts), decided and logged like anyone's. */
   async actAsSystem(venueId: number, sessionId: number, action: AnyAction): Promise<ActOutcome> {
-    const user: SignedInUser = { id: SYSTEM_ACTOR.personId, name: SYSTEM_ACTOR.name, email: '', venueId, roles: [] };
+    const user: SignedInUser = { id: SYSTEM_ACTOR.personId, name: SYSTEM_ACTOR.name, email: '', venueId, roles: [], venueIds: [venueId] };
     return this.decideAndRecord(user, sessionId, { key: '', clientTimeMs: 0, action: action as ActionEnvelope['action'] }, SYSTEM_ACTOR);
   }
 
@@ -196,7 +196,7 @@ export class SessionsService {
    * processes try at the same moment, exactly one writes it and the others find it no longer due.
    */
   async reAlertIfDue(venueId: number, sessionId: number): Promise<ActOutcome> {
-    const user: SignedInUser = { id: SYSTEM_ACTOR.personId, name: SYSTEM_ACTOR.name, email: '', venueId, roles: [] };
+    const user: SignedInUser = { id: SYSTEM_ACTOR.personId, name: SYSTEM_ACTOR.name, email: '', venueId, roles: [], venueIds: [venueId] };
     return this.decideAndRecord(user, sessionId, { key: '', clientTimeMs: 0, action: { type: 're-alert', personIds: [] } as AnyAction as ActionEnvelope['action'] }, SYSTEM_ACTOR, true);
   }
 

@@ -1,0 +1,120 @@
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import request from 'supertest';
+import { io as connect, type Socket } from 'socket.io-client';
+import { DEMO_PASSWORD } from '@shared/protocol/http';
+import { startTestApp, type TestApp } from '../support/app';
+import { addVenueWithPeople, cookieOf, signedIn } from '../support/people';
+
+function open(url: string, cookie: string): Socket {
+  return connect(url, { transports: ['websocket'], reconnection: false, forceNew: true, extraHeaders: { Cookie: cookie } });
+}
+const once = <T = unknown>(socket: Socket, event: string) => new Promise<T>((resolve) => socket.once(event, resolve as never));
+
+describe('a person with roles at more than one venue', () => {
+  let t: TestApp;
+  let larkspurId: number;
+  let quillId: number;
+  let railId: number;
+  let larkspurSessionId: number;
+
+  beforeAll(async () => {
+    t = await startTestApp();
+    [{ id: larkspurId }] = await t.database.owner.query("SELECT id FROM venue WHERE name = 'Larkspur Playhouse'");
+    ({ venueId: quillId } = await addVenueWithPeople(t.database.owner, 'Quillfield Hall', ['admin']));
+    [{ id: railId }] = await t.database.owner.query("SELECT id FROM person WHERE email = 'rail@larkspur.example'");
+    // Jo Castellan runs the rail at Larkspur and works the deck at Quillfield Hall.
+    await t.database.owner.query("INSERT INTO venue_role (venue_id, person_id, role) VALUES (?, ?, 'deck')", [quillId, railId]);
+    const rail = await signedIn(t.url, 'rail@larkspur.example');
+    const [set] = await t.database.owner.query('SELECT id FROM line_set WHERE venue_id = ? ORDER BY number LIMIT 1', [larkspurId]);
+    const opened = await rail.post('/api/sessions').send({ title: 'Larkspur change', lineSets: [{ lineSetId: set.id, remove: [], add: [] }] });
+    larkspurSessionId = opened.body.session.id;
+  });
+  afterAll(async () => { await t.close(); });
+
+  it('lists every venue with the roles held there, and starts at the first', async () => {
+    const me = (await (await signedIn(t.url, 'rail@larkspur.example')).get('/api/me')).body;
+    expect(me.venue.id).toBe(larkspurId);
+    expect(me.roles).toEqual(['rail']);
+    expect(me.venues).toEqual([
+      { id: larkspurId, name: 'Larkspur Playhouse', units: 'imperial', roles: ['rail'] },
+      { id: quillId, name: 'Quillfield Hall', units: 'metric', roles: ['deck'] },
+    ]);
+  });
+
+  it('switches venue: roles, routes and role checks follow the chosen venue', async () => {
+    const agent = await signedIn(t.url, 'rail@larkspur.example');
+    const res = await agent.put('/api/me/venue').send({ venueId: quillId });
+    expect(res.status).toBe(200);
+    expect(res.body).toMatchObject({ venue: { id: quillId, name: 'Quillfield Hall' }, roles: ['deck'] });
+    expect((await agent.get('/api/venue')).body.venue.name).toBe('Quillfield Hall');
+    // A deck hand may not plan a session, though the same person may at Larkspur.
+    expect((await agent.post('/api/sessions').send({ title: 'x', lineSets: [] })).status).toBe(403);
+    expect((await agent.get(`/api/sessions/${larkspurSessionId}`)).status).toBe(404);
+    // Back to Larkspur: the rail operator's own session is there again.
+    expect((await agent.put('/api/me/venue').send({ venueId: larkspurId })).body.roles).toEqual(['rail']);
+    expect((await agent.get(`/api/sessions/${larkspurSessionId}`)).status).toBe(200);
+  });
+
+  it('refuses a venue where the person holds no role, and bad input, with field errors', async () => {
+    const agent = await signedIn(t.url, 'deck@larkspur.example');
+    const refused = await agent.put('/api/me/venue').send({ venueId: quillId });
+    expect(refused.status).toBe(404);
+    expect(refused.body.error.fields.venueId).toBeDefined();
+    const bad = await agent.put('/api/me/venue').send({ venueId: 'somewhere' });
+    expect(bad.status).toBe(400);
+    expect(bad.body.error.fields.venueId).toBeDefined();
+    expect((await agent.get('/api/me')).body.venue.id).toBe(larkspurId);
+  });
+
+  it('keeps the choice to one sign-in: another device stays where it was', async () => {
+    const phone = await signedIn(t.url, 'rail@larkspur.example');
+    const laptop = await signedIn(t.url, 'rail@larkspur.example');
+    await phone.put('/api/me/venue').send({ venueId: quillId });
+    expect((await laptop.get('/api/me')).body.venue.id).toBe(larkspurId);
+  });
+
+  it('falls back to a venue still held when the chosen venue takes the roles away', async () => {
+    const [{ id: sid }] = await t.database.owner.query("SELECT id FROM person WHERE email = 'sm@larkspur.example'");
+    await t.database.owner.query("INSERT INTO venue_role (venue_id, person_id, role) VALUES (?, ?, 'loader')", [quillId, sid]);
+    const agent = await signedIn(t.url, 'sm@larkspur.example');
+    await agent.put('/api/me/venue').send({ venueId: quillId });
+    await t.database.owner.query('DELETE FROM venue_role WHERE venue_id = ? AND person_id = ?', [quillId, sid]);
+    const me = (await agent.get('/api/me')).body;
+    expect(me.venue.id).toBe(larkspurId);
+    expect(me.roles).toEqual(['stage-manager']);
+  });
+
+  describe('live connections', () => {
+    it("tells the sign-in's other tabs, and their next socket event acts on the chosen venue", async () => {
+      const signIn = await request(t.url).post('/api/auth/sign-in').send({ email: 'rail@larkspur.example', password: DEMO_PASSWORD });
+      const cookie = cookieOf(signIn);
+      const otherCookie = cookieOf(await request(t.url).post('/api/auth/sign-in').send({ email: 'rail@larkspur.example', password: DEMO_PASSWORD }));
+      const tab = open(t.url, cookie);
+      const elsewhere = open(t.url, otherCookie);
+      await Promise.all([once(tab, 'connect'), once(elsewhere, 'connect')]);
+      const watched = await tab.emitWithAck('session:watch', { sessionId: larkspurSessionId });
+      expect(watched.ok).toBe(true);
+
+      let elsewhereTold = false;
+      elsewhere.on('me:venue-changed', () => { elsewhereTold = true; });
+      const told = once<{ venue: { id: number } }>(tab, 'me:venue-changed');
+      const res = await request(t.url).put('/api/me/venue').set('Cookie', cookie).send({ venueId: quillId });
+      expect(res.status).toBe(200);
+      expect((await told).venue.id).toBe(quillId);
+
+      // The tab opened before the switch may no longer watch the Larkspur session.
+      const again = await tab.emitWithAck('session:watch', { sessionId: larkspurSessionId });
+      expect(again).toMatchObject({ ok: false, error: { code: 'not-found' } });
+      const acted = await tab.emitWithAck('session:act', {
+        sessionId: larkspurSessionId,
+        envelope: { key: 'venue-switch-1', clientTimeMs: Date.now(), action: { type: 'join', role: 'rail' } },
+      });
+      expect(acted.ok).toBe(false);
+      // The other sign-in was not told and still acts on Larkspur.
+      expect(elsewhereTold).toBe(false);
+      expect((await elsewhere.emitWithAck('session:watch', { sessionId: larkspurSessionId })).ok).toBe(true);
+      tab.close();
+      elsewhere.close();
+    });
+  });
+});
