@@ -21,7 +21,8 @@ if (filters.length > 0 && only !== 'unit' && only !== 'e2e') {
   process.exit(2);
 }
 
-ensureDebianPackages(['mariadb-server', 'chromium', 'poppler-utils']);
+// redis-server and nginx: the tests of several server processes start their own on loopback.
+ensureDebianPackages(['mariadb-server', 'chromium', 'poppler-utils', 'redis-server', 'nginx']);
 ensureNodeModules(root);
 rmSync(reportDir, { recursive: true, force: true });
 mkdirSync(reportDir, { recursive: true });

@@ -9,6 +9,9 @@ const DEBIAN_PACKAGES = {
   chromium: '/usr/bin/chromium',
   // pdftotext reads the session report's PDF back in the tests.
   'poppler-utils': '/usr/bin/pdftotext',
+  // Several server processes: the tests start their own Redis and nginx on loopback.
+  'redis-server': '/usr/bin/redis-server',
+  nginx: '/usr/sbin/nginx',
 };
 
 function run(cmd, args, opts = {}) {

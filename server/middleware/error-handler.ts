@@ -1,6 +1,6 @@
 import type { ErrorRequestHandler, RequestHandler } from 'express';
 import type { Logger } from '../logger';
-import { HttpError } from './http-error';
+import { HttpError, unavailableFrom } from './http-error';
 
 /** body-parser errors carry a `type`; answer them as bad input in plain words. */
 function fromBodyParser(error: unknown, limit: string): HttpError | null {
@@ -15,7 +15,7 @@ function fromBodyParser(error: unknown, limit: string): HttpError | null {
 
 export function errorHandler(logger: Logger, jsonLimit: string): ErrorRequestHandler {
   return (error, req, res, _next) => {
-    const known = error instanceof HttpError ? error : fromBodyParser(error, jsonLimit);
+    const known = error instanceof HttpError ? error : fromBodyParser(error, jsonLimit) ?? unavailableFrom(error);
     if (known) {
       res.status(known.status).json(known.toBody());
       return;

@@ -9,6 +9,7 @@ const STATUS: Record<ErrorCode, number> = {
   refused: 409,
   'too-many-requests': 429,
   internal: 500,
+  unavailable: 503,
 };
 
 /** An error that carries its HTTP status, a known code and a message written for the person. */
@@ -26,6 +27,20 @@ export class HttpError extends Error {
   toBody(): { error: ApiError } {
     return { error: { code: this.code, message: this.message, ...(this.fields ? { fields: this.fields } : {}) } };
   }
+}
+
+/** mysql2's codes for a database that cannot be reached or went away mid-query. */
+const DB_GONE = new Set(['ECONNREFUSED', 'ECONNRESET', 'ETIMEDOUT', 'EPIPE', 'PROTOCOL_CONNECTION_LOST', 'ER_SERVER_SHUTDOWN', 'ER_CON_COUNT_ERROR', 'ER_CONNECTION_KILLED', 'ER_LOCK_WAIT_TIMEOUT']);
+
+/**
+ * The database is out of reach (restarting, failing over): answered 503 `unavailable` so phones keep
+ * the tap and send it again with the same key. A transaction that lost its connection was rolled back.
+ */
+export function unavailableFrom(error: unknown): HttpError | null {
+  const e = error as { code?: unknown; driverError?: { code?: unknown }; message?: unknown } | null;
+  const code = e?.code ?? e?.driverError?.code;
+  const gone = (typeof code === 'string' && DB_GONE.has(code)) || (typeof e?.message === 'string' && /Pool is closed|connection is in closed state|Can't add new command when connection is in closed state/.test(e.message));
+  return gone ? new HttpError('unavailable', 'Railcall cannot reach its records for a moment. Nothing was done: try again.') : null;
 }
 
 export const notFound = (what = 'That') => new HttpError('not-found', `${what} was not found.`);

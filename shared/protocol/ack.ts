@@ -8,6 +8,8 @@ export const ERROR_CODES = [
   'too-many-requests',
   'refused',
   'internal',
+  /** The server cannot reach its database for a moment: nothing was done; send the same action again. */
+  'unavailable',
 ] as const;
 export type ErrorCode = (typeof ERROR_CODES)[number];
 

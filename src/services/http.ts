@@ -13,6 +13,7 @@ const FALLBACK_MESSAGES: Record<FailureCode, string> = {
   'too-many-requests': 'Too many tries in a short time. Wait a minute, then try again.',
   refused: 'The server refused that.',
   internal: 'The server had a problem. Try again in a moment.',
+  unavailable: 'The server is briefly out of reach of its records. Nothing was done; try again in a moment.',
   network: 'Railcall cannot reach the server. Check the Wi-Fi or network, then try again.',
 };
 
@@ -24,6 +25,7 @@ const STATUS_CODES: Record<number, ErrorCode> = {
   409: 'conflict',
   422: 'bad-input',
   429: 'too-many-requests',
+  503: 'unavailable',
 };
 
 /** A request that did not succeed; `message` is written for the person and safe to show. */

@@ -290,8 +290,9 @@ export const useLiveSessionStore = defineStore('liveSession', () => {
       pending.inFlight = false;
       // The session was closed (or another opened) while this tap was out: its answer belongs to no screen here.
       if (!stillQueued(pending)) return;
-      if (error || !res) {
-        // No answer: keep it queued; the same key goes again (now, or after the reconnect).
+      // No answer, or the server could not reach its records (nothing was done): keep it queued;
+      // the same key goes again (now, or after the reconnect), so it counts once however often it is sent.
+      if (error || !res || (!res.ok && res.error.code === 'unavailable')) {
         if (live.connected) later(() => send(pending));
         return;
       }

@@ -65,6 +65,20 @@ describe('useLiveSessionStore outbox', () => {
     expect(acts()[1].payload).toEqual(acts()[0].payload);
   });
 
+  it('keeps a tap the server could not record (database out of reach) and sends it again with the same key', async () => {
+    const store = useLiveSessionStore();
+    store.sessionId = 7;
+    const result = store.act({ type: 'answer-clear' });
+    acts()[0].ack!(null, { ok: false, error: { code: 'unavailable', message: 'Railcall cannot reach its records for a moment. Nothing was done: try again.' } });
+    expect(store.outbox).toHaveLength(1);
+    vi.advanceTimersByTime(1000);
+    expect(acts()).toHaveLength(2);
+    expect(acts()[1].payload).toEqual(acts()[0].payload);
+    acts()[1].ack!(null, { ok: true, seq: 9, state: begun() });
+    await expect(result).resolves.toEqual({ ok: true, seq: 9 });
+    expect(store.outbox).toHaveLength(0);
+  });
+
   it('never sends a tap from a closed session into the next one opened', () => {
     const store = useLiveSessionStore();
     store.sessionId = 7;

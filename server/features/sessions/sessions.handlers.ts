@@ -1,6 +1,6 @@
 import { describeEntry, sessionActPayloadSchema, sessionWatchPayloadSchema, type LogEntry, type SessionState, type SessionWatchResult } from '@shared/protocol/session';
 import type { Ack, ApiError } from '@shared/protocol/ack';
-import { HttpError } from '../../middleware/http-error';
+import { HttpError, unavailableFrom } from '../../middleware/http-error';
 import { personRoom, type RailcallServer, type SocketFeature } from '../../realtime/io';
 import type { Logger } from '../../logger';
 import type { Presence } from './presence';
@@ -11,6 +11,8 @@ export const sessionRoom = (sessionId: number) => `loading:${sessionId}`;
 /** Turns any failure into an error a phone can show; unexpected ones are logged in full here. */
 function toApiError(error: unknown, logger: Logger): ApiError {
   if (error instanceof HttpError) return error.toBody().error;
+  const unavailable = unavailableFrom(error);
+  if (unavailable) return unavailable.toBody().error;
   logger.error({ err: error }, 'socket handler failed');
   return { code: 'internal', message: 'Something went wrong on the server. Try again.' };
 }
