@@ -25,6 +25,7 @@ import { practiceRoutes } from './features/practice/practice.routes';
 import { RecordService } from './features/record/record.service';
 import { recordRoutes } from './features/record/record.routes';
 import { ScheduleEditor } from './features/schedule/schedule-edit.service';
+import { ScheduleCsv } from './features/schedule/schedule-csv';
 import { createIo, endSignIn, venueChosen, type RailcallServer } from './realtime/io';
 import { SessionsService } from './features/sessions/sessions.service';
 import { sessionRoutes } from './features/sessions/sessions.routes';
@@ -78,7 +79,7 @@ export function createApp({ config, db, logger, redis }: AppDeps): RailcallApp {
       onVenueChosen: (sessionId, me) => io && venueChosen(io, sessionId, me.venue),
     }),
     ...peopleRoutes(people, (personId) => io && stopWatching(io, personId)),
-    ...scheduleRoutes(schedule, editor),
+    ...scheduleRoutes(schedule, editor, new ScheduleCsv(db, schedule)),
     ...sessionRoutes(sessions, presence),
     ...practiceRoutes(new PracticeService(db, schedule)),
     ...recordRoutes(new RecordService(db)),

@@ -2,6 +2,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import request from 'supertest';
 import { DEMO_ACCOUNTS } from '@shared/protocol/http';
 import { DEFAULT_SETTINGS } from '@shared/protocol/schedule';
+import { csvHeaders } from '@shared/protocol/schedule-csv';
 import { LINE_SET_FIELDS } from '../../server/features/schedule/schedule-edit.service';
 import type { Role } from '@shared/protocol/roles';
 import { startTestApp, type TestApp } from '../support/app';
@@ -78,6 +79,19 @@ const TABLE: Record<string, Case> = {
   },
   'get /venue/history': { allowed: ['admin'], okStatus: 200, send: (a) => a.get('/api/venue/history') },
   // Line sets: the director; a rail operator only when the director grants it (not in the demo).
+  'get /schedule/csv': { allowed: EVERYONE, okStatus: 200, send: (a) => a.get('/api/schedule/csv') },
+  'post /schedule/csv/preview': {
+    allowed: ['admin', 'rail'], okStatus: 200, otherwise: { rail: 403 },
+    send: (a) => a.post('/api/schedule/csv/preview').set('Content-Type', 'text/csv').send(`${csvHeaders('imperial').join(',')}\n`),
+  },
+  'post /schedule/csv/import': {
+    allowed: ['admin', 'rail'], okStatus: 200, otherwise: { rail: 403 },
+    send: async (a) => {
+      const empty = `${csvHeaders('imperial').join(',')}\n`;
+      const preview = await a.post('/api/schedule/csv/preview').set('Content-Type', 'text/csv').send(empty);
+      return a.post(`/api/schedule/csv/import?token=${preview.body.token ?? '0'.repeat(64)}`).set('Content-Type', 'text/csv').send(empty);
+    },
+  },
   'post /line-sets': {
     allowed: ['admin', 'rail'], okStatus: 201, otherwise: { rail: 403 },
     send: async (a, c) => a.post('/api/line-sets').send({ lineSet: { ...(await c.lineSet(29)).fields, number: 100 + ++counter } }),

@@ -10,8 +10,12 @@ import {
   updateLineSetSchema,
   venueInputSchema,
 } from '@shared/protocol/schedule';
+import express from 'express';
+import { z } from 'zod';
 import { route, type RouteSpec } from '../../middleware/routes';
+import type { ScheduleCsv } from './schedule-csv';
 import { idParam } from '../../middleware/validate';
+import { HttpError } from '../../middleware/http-error';
 import type { ScheduleEditor } from './schedule-edit.service';
 import type { ScheduleService } from './schedule.service';
 
@@ -22,7 +26,15 @@ const LINE_SET_EDITORS = { roles: ['admin', 'rail'] } as const;
 const PIECE_EDITORS = { roles: ['admin', 'rail'] } as const;
 
 /** Everyone at the venue reads the schedule: the crew needs the weights as much as the lead. */
-export function scheduleRoutes(schedule: ScheduleService, editor: ScheduleEditor): RouteSpec[] {
+/** A schedule CSV is sent as the body itself (text/csv), up to 2 MB: 200 line sets of 5 pieces is about 150 kB. */
+const csvBody = express.text({ type: ['text/csv', 'text/plain'], limit: '2mb' });
+const csvText = (body: unknown): string => {
+  if (typeof body !== 'string' || body.trim() === '') throw new HttpError('bad-input', 'Send the CSV file as the request body (text/csv).', { file: ['Choose a CSV file'] });
+  return body;
+};
+const importQuery = z.object({ token: z.string().regex(/^[0-9a-f]{64}$/, 'Preview the file first') });
+
+export function scheduleRoutes(schedule: ScheduleService, editor: ScheduleEditor, csv: ScheduleCsv): RouteSpec[] {
   return [
     route({
       method: 'get',
@@ -48,6 +60,32 @@ export function scheduleRoutes(schedule: ScheduleService, editor: ScheduleEditor
       path: '/schedule',
       access: { roles: 'any' },
       handler: ({ user }) => schedule.schedule(user.venueId),
+    }),
+    route({
+      method: 'get',
+      path: '/schedule/csv',
+      access: { roles: 'any' },
+      async handler({ user, res }) {
+        const { csv: text, venueName } = await csv.export(user.venueId);
+        const name = venueName.toLowerCase().replace(/[^a-z0-9]+/g, '-').replace(/^-|-$/g, '') || 'venue';
+        res.type('text/csv; charset=utf-8').attachment(`${name}-schedule.csv`).send(text);
+        return undefined;
+      },
+    }),
+    route({
+      method: 'post',
+      path: '/schedule/csv/preview',
+      access: LINE_SET_EDITORS,
+      before: [csvBody],
+      handler: async ({ user, req }) => csv.preview(user, csvText(req.body)),
+    }),
+    route({
+      method: 'post',
+      path: '/schedule/csv/import',
+      access: LINE_SET_EDITORS,
+      before: [csvBody],
+      query: importQuery,
+      handler: async ({ user, req, query }) => csv.import(user, csvText(req.body), query.token),
     }),
     route({
       method: 'post',
