@@ -5,6 +5,7 @@ import { createDataSource } from '../../server/db/data-source';
 import { seedIfEmpty } from '../../server/db/setup';
 import { createLogger } from '../../server/logger';
 import { createTestDatabase } from '../../tests/support/db';
+import { playPastDrapeUnload } from '../../server/db/seed/past-session';
 import { E2E_BASE_PORT, LANES } from './lanes';
 
 const stops: (() => Promise<void>)[] = [];
@@ -16,6 +17,8 @@ for (const [i, lane] of LANES.entries()) {
   await db.initialize();
   const railcall = createApp({ config, db, logger: createLogger('warn') });
   await railcall.start();
+  // The record's lane needs a session that finished yesterday, played through the real rules on its own clock.
+  if (lane === 'record') await playPastDrapeUnload(db, { startMs: Date.now() - 86_400_000 });
   await new Promise<void>((resolve) => railcall.httpServer.listen(E2E_BASE_PORT + i, '127.0.0.1', resolve));
   console.log(`[e2e] lane ${lane} on http://127.0.0.1:${E2E_BASE_PORT + i}`);
   stops.push(async () => {

@@ -79,6 +79,8 @@ export interface ReportEntry {
 
 export interface ReportLineSet {
   id: string;
+  /** The line set on the venue's schedule, for its own record page. */
+  scheduleId: number | null;
   name: string;
   ropeLockLimitKg: number;
   /** The plan, step by step, with the computed balance after each and what was logged when it was done. */

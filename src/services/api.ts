@@ -4,6 +4,7 @@ import type { Role } from '@shared/protocol/roles';
 import type { ScheduleView } from '@shared/protocol/schedule';
 import type { CreateSessionInput, PresenceEntry, SessionSummary } from '@shared/protocol/sessions-api';
 import type { LogEntry, SessionState } from '@shared/protocol/session';
+import type { ChainCheck, HistoryAnswer, LineSetRecord, SessionReport, VerifyAnswer } from '@shared/protocol/record';
 import { ApiFailure, http } from './http';
 
 /**
@@ -66,3 +67,15 @@ export async function listPractices(personId?: number): Promise<PracticeSummary[
   return answer.practices;
 }
 export const getPractice = (id: number) => http.get<PracticeDetail>(`/api/practice-runs/${id}`);
+
+// The record of past sessions.
+export const getHistory = (query: { lineSetId?: number; personId?: number; from?: string; to?: string }) =>
+  http.get<HistoryAnswer>('/api/record/sessions', { query });
+export const getReport = (id: number) => http.get<{ report: SessionReport; charts: Record<string, string> }>(`/api/record/sessions/${id}/report`);
+export const checkSessionChain = (id: number) => http.get<{ chain: ChainCheck }>(`/api/record/sessions/${id}/check`);
+export const verifyExport = (fileName: string, text: string) => http.post<VerifyAnswer>('/api/record/verify', { fileName, text });
+export const getLineSetRecord = (id: number) => http.get<LineSetRecord>(`/api/record/line-sets/${id}`);
+/** Addresses the browser downloads itself (the PDF, the CSV, the exported record). */
+export const reportPdfUrl = (id: number) => `/api/record/sessions/${id}/report.pdf`;
+export const reportCsvUrl = (id: number) => `/api/record/sessions/${id}/report.csv`;
+export const recordExportUrl = (id: number) => `/api/sessions/${id}/record`;

@@ -84,3 +84,10 @@ export function stepWho(step: PlanStep): string {
   if (step.kind === 'remove-piece' || step.kind === 'add-piece') return 'Deck';
   return 'Rail';
 }
+
+/** "2 Dec 2026, 14:05:09": the date and the time to the second (the record spans days). */
+export function dateTime(ms: number, timeZone?: string): string {
+  return new Date(ms).toLocaleString('en-GB', {
+    timeZone, day: 'numeric', month: 'short', year: 'numeric', hour: '2-digit', minute: '2-digit', second: '2-digit', hourCycle: 'h23',
+  });
+}

@@ -147,6 +147,7 @@ export class RecordService {
       openedAtMs: row.createdAtMs,
       createdByName: names.get(row.createdBy) ?? '',
       state: row.state,
+      scheduleIds: Object.fromEntries(row.plan.lineSets.map((l) => [l.key, l.scheduleId])),
       entries,
       genesisHash: genesis,
       lastSeq: row.lastSeq,

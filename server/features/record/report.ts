@@ -21,6 +21,8 @@ export interface ReportSource {
   openedAtMs: number;
   createdByName: string;
   state: SessionState;
+  /** Session line set id → line_set.id on the schedule. */
+  scheduleIds: Record<string, number>;
   entries: LogEntry[];
   genesisHash: string;
   lastSeq: number;
@@ -60,6 +62,7 @@ export function buildReport(src: ReportSource): SessionReport {
     for (const e of src.entries) if (e.kind === 'step-confirmed' && e.lineSetId === ls.id && e.stepIndex !== null) logged.set(e.stepIndex, e);
     return {
       id: ls.id,
+      scheduleId: src.scheduleIds[ls.id] ?? null,
       name: ls.name,
       ropeLockLimitKg: ls.ropeLockLimitKg,
       steps: ls.steps.map((step, i) => {
