@@ -91,13 +91,13 @@ describe('replaySession', () => {
         steps += log.filter((e) => e.kind === 'step-confirmed').length;
         if (state.phase === 'finished') finished += 1;
       }),
-      { numRuns: 150, seed: 20251210 },
+      { numRuns: 100, seed: 20251210 },
     );
     // The runs reach deep into sessions (many entries, some finished), so the equality is not vacuous.
-    expect(entriesSeen).toBeGreaterThan(8_000);
-    expect(steps).toBeGreaterThan(100);
+    expect(entriesSeen).toBeGreaterThan(5_000);
+    expect(steps).toBeGreaterThan(60);
     expect(finished).toBeGreaterThan(0);
-  });
+  }, 120_000);
 
   it('says which entry the rules would not have written', () => {
     let state = createSessionState({ lineSets: [twoDrapeLineSet] });
