@@ -91,7 +91,8 @@ test.describe('signing in at phone size', () => {
     await expect(people.getByRole('listitem').filter({ hasText: email }).getByText('Invited')).toBeVisible();
 
     // Taking the admin role from the only technical director is refused, in words.
-    await page.getByRole('button', { name: 'Change roles of Morgan Vale' }).click();
+    await page.getByRole('button', { name: 'Manage Morgan Vale' }).click();
+    await page.getByText('Change roles', { exact: true }).click();
     const rolesDialog = page.getByRole('dialog').filter({ hasText: 'Roles of Morgan Vale' });
     await rolesDialog.getByText('Technical director', { exact: true }).click();
     await rolesDialog.getByRole('button', { name: 'Save roles' }).click();

@@ -12,6 +12,10 @@ const root = join(dirname(fileURLToPath(import.meta.url)), '..');
 const dataDir = join(root, '.data');
 const dbPort = Number(process.env.RAILCALL_DB_PORT ?? 3407);
 const appPort = Number(process.env.RAILCALL_PORT ?? 3000);
+// Without a mail server of your own (RAILCALL_SMTP_HOST), a local fake one keeps every message in .data/mail.
+const ownSmtp = Boolean(process.env.RAILCALL_SMTP_HOST);
+const catcherPort = Number(process.env.RAILCALL_MAIL_CATCHER_PORT ?? 2525);
+const mailDir = join(dataDir, 'mail');
 
 /** True when something already listens on the port (another Railcall, most likely). */
 const portInUse = (port) => new Promise((resolve) => {
@@ -33,13 +37,16 @@ console.log(`[start] MariaDB on 127.0.0.1:${dbPort} (data in .data/mariadb)`);
 await db.start({ adoptRunning: true });
 
 let server;
+let catcher;
 let stopping = false;
 async function stop(code = 0) {
   if (stopping) return;
   stopping = true;
-  if (server && server.exitCode === null) {
-    server.kill('SIGTERM');
-    await new Promise((resolve) => server.once('exit', resolve));
+  for (const child of [server, catcher]) {
+    if (child && child.exitCode === null) {
+      child.kill('SIGTERM');
+      await new Promise((resolve) => child.once('exit', resolve));
+    }
   }
   console.log('[start] stopping MariaDB');
   await db.stop();
@@ -59,6 +66,11 @@ try {
     if (build.status !== 0) throw new Error('the client build failed');
   }
 
+  if (!ownSmtp) {
+    if (await portInUse(catcherPort)) throw new Error(`port ${catcherPort} (the local mail catcher) is in use: set RAILCALL_MAIL_CATCHER_PORT`);
+    catcher = spawn(process.execPath, ['--import', 'tsx', 'scripts/mail-catcher.ts', String(catcherPort), mailDir], { cwd: root, stdio: 'inherit' });
+  }
+
   server = spawn(process.execPath, ['--import', 'tsx', 'server/index.ts'], {
     cwd: root,
     stdio: 'inherit',
@@ -74,6 +86,7 @@ try {
       RAILCALL_DB_OWNER_PASSWORD: credentials.ownerPassword,
       RAILCALL_SESSION_SECRET: credentials.sessionSecret,
       RAILCALL_CLIENT_DIR: join(root, 'dist'),
+      ...(ownSmtp ? {} : { RAILCALL_SMTP_HOST: '127.0.0.1', RAILCALL_SMTP_PORT: String(catcherPort), RAILCALL_MAILBOX_DIR: mailDir }),
     },
   });
   server.on('exit', (code) => {

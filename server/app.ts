@@ -14,7 +14,7 @@ import { HttpError } from './middleware/http-error';
 /** Client files a phone must revalidate on every load (see the static files below). */
 const ALWAYS_FRESH = new Set(['sw.js', 'manifest.webmanifest', 'index.html']);
 import { createPassport } from './features/auth/passport';
-import { signInThrottles } from './features/auth/throttle';
+import { resetThrottles, signInThrottles } from './features/auth/throttle';
 import { authRoutes } from './features/auth/auth.routes';
 import { PeopleService } from './features/people/people.service';
 import { peopleRoutes } from './features/people/people.routes';
@@ -26,7 +26,11 @@ import { RecordService } from './features/record/record.service';
 import { recordRoutes } from './features/record/record.routes';
 import { ScheduleEditor } from './features/schedule/schedule-edit.service';
 import { ScheduleCsv } from './features/schedule/schedule-csv';
-import { createIo, endSignIn, venueChosen, type RailcallServer } from './realtime/io';
+import { createIo, endPersonSignIns, endSignIn, venueChosen, type RailcallServer } from './realtime/io';
+import { MailQueue } from './features/mail/mail-queue';
+import { Mailbox } from './features/mail/mailbox';
+import { mailRoutes } from './features/mail/mail.routes';
+import { pdfReportRenderer, ReportMailer } from './features/mail/report-mail';
 import { SessionsService } from './features/sessions/sessions.service';
 import { sessionRoutes } from './features/sessions/sessions.routes';
 import { broadcastCommitted, resyncLocalPhones, sessionSocketFeature, stopWatching } from './features/sessions/sessions.handlers';
@@ -50,6 +54,7 @@ export interface RailcallApp {
   /** Every API route, with its access rule (the access test walks this list). */
   routes: RouteSpec[];
   sessions: SessionsService;
+  mail: MailQueue;
   /** Starts background work that reads the database (re-alert timers of open sessions). */
   start(): Promise<void>;
   /** Stops taking connections and closes what the app opened (not the DataSource it was given). */
@@ -61,7 +66,9 @@ export function createApp({ config, db, logger, redis }: AppDeps): RailcallApp {
   const app = express();
   const httpServer = createServer(app);
   const session = createSessionMiddleware(config);
-  const people = new PeopleService(db);
+  const mail = new MailQueue(db, config.mail, logger);
+  const record = new RecordService(db);
+  const people = new PeopleService(db, { queue: mail, config: config.mail });
   const passport = createPassport(people);
   const schedule = new ScheduleService(db);
   const editor = new ScheduleEditor(db, schedule);
@@ -75,14 +82,25 @@ export function createApp({ config, db, logger, redis }: AppDeps): RailcallApp {
       people,
       passport,
       throttles: signInThrottles(config),
+      resetThrottles: resetThrottles(config),
       onSignedOut: (sessionId) => io && endSignIn(io, sessionId),
       onVenueChosen: (sessionId, me) => io && venueChosen(io, sessionId, me.venue),
+      onSignedOutEverywhere: (personId) => io && endPersonSignIns(io, personId),
     }),
-    ...peopleRoutes(people, (personId) => io && stopWatching(io, personId)),
+    ...peopleRoutes(people, {
+      onRolesChanged: (personId) => io && stopWatching(io, personId),
+      onDeactivated: (personId) => io && endPersonSignIns(io, personId),
+    }),
     ...scheduleRoutes(schedule, editor, new ScheduleCsv(db, schedule)),
     ...sessionRoutes(sessions, presence),
     ...practiceRoutes(new PracticeService(db, schedule)),
-    ...recordRoutes(new RecordService(db)),
+    ...recordRoutes(record),
+    ...mailRoutes({
+      queue: mail,
+      people,
+      reports: new ReportMailer(db, mail, people, pdfReportRenderer(record)),
+      mailbox: config.mail.mailboxDir ? new Mailbox(config.mail.mailboxDir) : null,
+    }),
   ];
 
   app.disable('x-powered-by');
@@ -147,10 +165,15 @@ export function createApp({ config, db, logger, redis }: AppDeps): RailcallApp {
     io,
     routes,
     sessions,
-    start: () => reAlerts.start(),
+    mail,
+    async start() {
+      await reAlerts.start();
+      mail.start();
+    },
     async close() {
       reAlerts.stop();
       redis?.off('ready', onRedisBack);
+      await mail.stop();
       await io.close();
       if (httpServer.listening) await new Promise<void>((r) => httpServer.close(() => r()));
       await session.close();

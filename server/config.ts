@@ -16,6 +16,18 @@ const envSchema = z.object({
   RAILCALL_CLIENT_DIR: z.string().default('dist'),
   /** Seed the demo venue (with its published demo passwords) into an empty database. Off in production unless set. */
   RAILCALL_SEED_DEMO: z.enum(['0', '1']).optional(),
+  /** Where people reach Railcall: the links in invitation and reset mails start with it. */
+  RAILCALL_PUBLIC_URL: z.url().optional(),
+  /** The mail server. Without a host, mail waits in the queue (status "queued") until one is set. */
+  RAILCALL_SMTP_HOST: z.string().optional(),
+  RAILCALL_SMTP_PORT: z.coerce.number().int().min(1).max(65535).default(587),
+  /** 1: TLS from the first byte (port 465); 0: plain, upgraded with STARTTLS when the server offers it. */
+  RAILCALL_SMTP_SECURE: z.enum(['0', '1']).default('0'),
+  RAILCALL_SMTP_USER: z.string().optional(),
+  RAILCALL_SMTP_PASSWORD: z.string().optional(),
+  RAILCALL_MAIL_FROM: z.string().default('Railcall <railcall@localhost>'),
+  /** The local fake mail server's folder (npm start, tests): the development-only mailbox page reads it. */
+  RAILCALL_MAILBOX_DIR: z.string().optional(),
   RAILCALL_LOG_LEVEL: z.enum(['fatal', 'error', 'warn', 'info', 'debug', 'silent']).default('info'),
   /** Redis for Socket.IO between several server processes (redis://127.0.0.1:6379). Unset: one process, no Redis. */
   RAILCALL_REDIS_URL: z.string().url().optional(),
@@ -27,6 +39,32 @@ export interface DbConfig {
   database: string;
   user: string;
   password: string;
+}
+
+export interface SmtpConfig {
+  host: string;
+  port: number;
+  secure: boolean;
+  user?: string;
+  password?: string;
+}
+
+export interface MailConfig {
+  /** null: no mail server set; messages stay queued. */
+  smtp: SmtpConfig | null;
+  from: string;
+  publicUrl: string;
+  /** The fake mail server's folder, read by the mailbox page; always null in production. */
+  mailboxDir: string | null;
+  /** How often the sender looks for due messages. */
+  pollMs: number;
+  /** Back-off after a failed try: base doubled per try, capped. */
+  retryBaseMs: number;
+  retryMaxMs: number;
+  /** After this many tries a message is marked failed (kept, and can be sent again by hand). */
+  maxAttempts: number;
+  inviteDays: number;
+  resetMinutes: number;
 }
 
 export interface Config {
@@ -48,6 +86,7 @@ export interface Config {
   seedDemo: boolean;
   /** Set when several server processes share the real-time layer through Redis. */
   redisUrl: string | null;
+  mail: MailConfig;
 }
 
 export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
@@ -68,5 +107,19 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
     logLevel: e.RAILCALL_LOG_LEVEL,
     seedDemo: e.RAILCALL_SEED_DEMO ? e.RAILCALL_SEED_DEMO === '1' : e.NODE_ENV !== 'production',
     redisUrl: e.RAILCALL_REDIS_URL ?? null,
+    mail: {
+      smtp: e.RAILCALL_SMTP_HOST
+        ? { host: e.RAILCALL_SMTP_HOST, port: e.RAILCALL_SMTP_PORT, secure: e.RAILCALL_SMTP_SECURE === '1', user: e.RAILCALL_SMTP_USER, password: e.RAILCALL_SMTP_PASSWORD }
+        : null,
+      from: e.RAILCALL_MAIL_FROM,
+      publicUrl: (e.RAILCALL_PUBLIC_URL ?? `http://localhost:${e.RAILCALL_PORT}`).replace(/\/+$/, ''),
+      mailboxDir: e.NODE_ENV === 'production' ? null : (e.RAILCALL_MAILBOX_DIR ?? null),
+      pollMs: 2000,
+      retryBaseMs: 5000,
+      retryMaxMs: 10 * 60 * 1000,
+      maxAttempts: 20,
+      inviteDays: 7,
+      resetMinutes: 60,
+    },
   };
 }

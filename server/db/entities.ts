@@ -6,6 +6,10 @@ import { LineSetRow } from '../features/schedule/line-set.entity';
 import { PieceRow } from '../features/schedule/piece.entity';
 import { PracticeRunRow } from '../features/practice/practice.entity';
 import { ScheduleChangeRow } from '../features/schedule/schedule-change.entity';
+import { MailAttachmentRow, MailMessageRow } from '../features/mail/mail.entity';
 import { ActionKeyRow, LoadingSessionRow, PresenceRow, SessionEventRow } from '../features/sessions/session.entity';
 
-export const entities = [Venue, Person, VenueRole, BrickTypeRow, LineSetRow, PieceRow, ScheduleChangeRow, LoadingSessionRow, SessionEventRow, ActionKeyRow, PracticeRunRow, PresenceRow];
+export const entities = [
+  Venue, Person, VenueRole, BrickTypeRow, LineSetRow, PieceRow, ScheduleChangeRow, LoadingSessionRow, SessionEventRow, ActionKeyRow,
+  PracticeRunRow, PresenceRow, MailMessageRow, MailAttachmentRow,
+];

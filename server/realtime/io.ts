@@ -124,3 +124,10 @@ export function endSignIn(io: RailcallServer, sessionId: string): void {
   room.emit('auth:signed-out');
   room.disconnectSockets(true);
 }
+
+/** Deactivation: every socket of the person, on every device, is told and closed. */
+export function endPersonSignIns(io: RailcallServer, personId: number): void {
+  const room = io.in(personRoom(personId));
+  room.emit('auth:signed-out');
+  room.disconnectSockets(true);
+}

@@ -1,5 +1,6 @@
 import { z } from 'zod';
 import { roleSchema, type Role } from './roles';
+import type { MailView } from './mail';
 
 export const UNIT_SYSTEMS = ['imperial', 'metric'] as const;
 export type UnitSystem = (typeof UNIT_SYSTEMS)[number];
@@ -53,6 +54,29 @@ export const chooseVenueSchema = z.object({
 });
 export type ChooseVenueInput = z.infer<typeof chooseVenueSchema>;
 
+/** Changing a person's name and e-mail address (crew administration). */
+export const editPersonSchema = z.object({
+  name: z.string().trim().min(1, 'Enter a name').max(120),
+  email: z.email('Enter an e-mail address').max(254),
+});
+export type EditPersonInput = z.infer<typeof editPersonSchema>;
+
+export const passwordResetRequestSchema = z.object({
+  email: z.email('Enter an e-mail address').max(254),
+});
+
+export const resetPasswordSchema = z.object({
+  token: z.string().min(20).max(200),
+  password: passwordSchema,
+});
+
+/**
+ * Where a person stands: signed up (`active`), invited and not yet signed up, their invitation
+ * run out or taken back, or `deactivated` (cannot sign in; their name stays on the record).
+ */
+export const PERSON_STATUSES = ['active', 'invited', 'invitation-expired', 'invitation-revoked', 'deactivated'] as const;
+export type PersonStatus = (typeof PERSON_STATUSES)[number];
+
 export interface PersonRow {
   id: number;
   name: string;
@@ -60,10 +84,16 @@ export interface PersonRow {
   roles: Role[];
   /** False until the person has set a password from their invitation. */
   active: boolean;
+  status: PersonStatus;
+  /** ISO time the open invitation runs out, while one is out. */
+  invitationExpiresAt: string | null;
+  /** The newest invitation mail to this person and where it stands. */
+  invitationMail: MailView | null;
 }
 
-/** Answer to adding a person: the one-time link to set a password (shown once to the admin). */
+/** Answer to adding a person or sending a new invitation: the one-time link (shown once) and its mail. */
 export interface AddPersonResult {
   person: PersonRow;
   inviteUrl: string;
+  mail: MailView | null;
 }

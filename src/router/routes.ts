@@ -25,6 +25,8 @@ export const routes: RouteRecordRaw[] = [
     children: [
       { path: 'sign-in', name: 'sign-in', component: () => import('@/pages/SignInPage.vue'), meta: { guestOnly: true, title: 'Sign in' } },
       { path: 'welcome/:token', name: 'welcome', component: () => import('@/pages/WelcomePage.vue'), meta: { public: true, title: 'Welcome' } },
+      { path: 'forgot-password', name: 'forgot-password', component: () => import('@/pages/ForgotPasswordPage.vue'), meta: { guestOnly: true, title: 'Forgot password' } },
+      { path: 'reset-password/:token', name: 'reset-password', component: () => import('@/pages/ResetPasswordPage.vue'), meta: { public: true, title: 'New password' } },
     ],
   },
   {
@@ -59,6 +61,7 @@ export const routes: RouteRecordRaw[] = [
         props: (route) => ({ id: Number(route.params.id) }),
         meta: { title: 'Practice debrief' },
       },
+      { path: 'admin/mail', name: 'admin-mail', component: () => import('@/pages/AdminMailPage.vue'), meta: { roles: ['admin'], title: 'Mail' } },
       { path: 'admin/training', name: 'admin-training', component: () => import('@/pages/TrainingRecordPage.vue'), meta: { roles: ['admin'], title: 'Training record' } },
       { path: 'record', name: 'record', component: () => import('@/pages/RecordHistoryPage.vue'), meta: { title: 'Past sessions' } },
       { path: 'record/verify', name: 'record-verify', component: () => import('@/pages/VerifyRecordPage.vue'), meta: { title: 'Check a record' } },

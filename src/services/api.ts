@@ -1,4 +1,5 @@
-import type { AddPersonInput, AddPersonResult, Me, PersonRow, SignInInput } from '@shared/protocol/people';
+import type { AddPersonInput, AddPersonResult, EditPersonInput, Me, PersonRow, SignInInput } from '@shared/protocol/people';
+import type { MailboxMessage, MailView, RecipientRow, ReportMailInput } from '@shared/protocol/mail';
 import type { FinishPracticeInput, PracticeDetail, PracticeStart, PracticeSummary, StartPracticeInput } from '@shared/protocol/practice';
 import type { Role } from '@shared/protocol/roles';
 import type { ScheduleView } from '@shared/protocol/schedule';
@@ -30,6 +31,23 @@ export const acceptInvite = (token: string, password: string) =>
 
 /** Act on another venue where the person holds a role; the server checks it and answers the new Me. */
 export const chooseVenue = (venueId: number) => http.put<Me>('/api/me/venue', { venueId });
+
+export const requestPasswordReset = (email: string) => http.post<{ message: string }>('/api/auth/password-reset', { email });
+export const resetPassword = (token: string, password: string) => http.post<Me>('/api/auth/reset-password', { token, password });
+
+export const editPerson = (id: number, input: EditPersonInput) => http.put<{ person: PersonRow }>(`/api/people/${id}`, input);
+export const resendInvitation = (id: number) => http.post<AddPersonResult>(`/api/people/${id}/invitation`);
+export const revokeInvitation = (id: number) => http.del<{ person: PersonRow }>(`/api/people/${id}/invitation`);
+export const deactivatePerson = (id: number) => http.post<{ person: PersonRow }>(`/api/people/${id}/deactivate`);
+export const reactivatePerson = (id: number) => http.post<{ person: PersonRow }>(`/api/people/${id}/reactivate`);
+
+export const getOutbox = () => http.get<{ messages: MailView[] }>('/api/mail/outbox');
+export const sendMailAgain = (id: number) => http.post<{ messages: MailView[] }>(`/api/mail/${id}/send-again`);
+export const getRecipients = () => http.get<{ people: RecipientRow[] }>('/api/mail/recipients');
+export const mailSessionReport = (sessionId: number, input: ReportMailInput) =>
+  http.post<{ messages: MailView[] }>(`/api/sessions/${sessionId}/report-mail`, input);
+/** The local fake mail server's messages (development only: 404 in production). */
+export const getDevMailbox = () => http.get<{ messages: MailboxMessage[] }>('/api/dev/mailbox');
 
 export const listPeople = () => http.get<{ people: PersonRow[] }>('/api/people');
 export const addPerson = (input: AddPersonInput) => http.post<AddPersonResult>('/api/people', input);

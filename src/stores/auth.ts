@@ -75,6 +75,13 @@ export const useAuthStore = defineStore('auth', () => {
     return person;
   }
 
+  /** Sets a new password from a reset link; signs in as that person. */
+  async function resetPassword(token: string, password: string): Promise<Me> {
+    const person = await api.resetPassword(token, password);
+    become(person);
+    return person;
+  }
+
   async function signOut(): Promise<void> {
     try {
       await api.signOut();
@@ -101,5 +108,5 @@ export const useAuthStore = defineStore('auth', () => {
     if (!socket.active && me.value) void load().catch(() => undefined);
   });
 
-  return { me, fromCache, loaded, signedIn, roles, homeRoute, roleHomes, hasRole, load, signIn, acceptInvite, chooseVenue, signOut };
+  return { me, fromCache, loaded, signedIn, roles, homeRoute, roleHomes, hasRole, load, signIn, acceptInvite, chooseVenue, resetPassword, signOut };
 });

@@ -1,6 +1,6 @@
 import { defineStore } from 'pinia';
 import { ref } from 'vue';
-import type { AddPersonInput, AddPersonResult, PersonRow } from '@shared/protocol/people';
+import type { AddPersonInput, AddPersonResult, EditPersonInput, PersonRow } from '@shared/protocol/people';
 import type { Role } from '@shared/protocol/roles';
 import * as api from '@/services/api';
 
@@ -47,5 +47,37 @@ export const usePeopleStore = defineStore('people', () => {
     return person;
   }
 
-  return { people, loading, loaded, load, add, setRoles };
+  async function edit(id: number, input: EditPersonInput): Promise<PersonRow> {
+    const { person } = await api.editPerson(id, input);
+    upsert(person);
+    return person;
+  }
+
+  /** A new invitation link (the old one stops working), mailed; handed back to show once. */
+  async function resendInvitation(id: number): Promise<AddPersonResult> {
+    const result = await api.resendInvitation(id);
+    upsert(result.person);
+    return result;
+  }
+
+  async function revokeInvitation(id: number): Promise<PersonRow> {
+    const { person } = await api.revokeInvitation(id);
+    upsert(person);
+    return person;
+  }
+
+  /** Signs the person out on every device at once; they stay listed, their log entries kept. */
+  async function deactivate(id: number): Promise<PersonRow> {
+    const { person } = await api.deactivatePerson(id);
+    upsert(person);
+    return person;
+  }
+
+  async function reactivate(id: number): Promise<PersonRow> {
+    const { person } = await api.reactivatePerson(id);
+    upsert(person);
+    return person;
+  }
+
+  return { people, loading, loaded, load, add, setRoles, edit, resendInvitation, revokeInvitation, deactivate, reactivate };
 });

@@ -5,6 +5,9 @@ import { DEFAULT_SETTINGS } from '@shared/protocol/schedule';
 import { csvHeaders } from '@shared/protocol/schedule-csv';
 import { LINE_SET_FIELDS } from '../../server/features/schedule/schedule-edit.service';
 import type { Role } from '@shared/protocol/roles';
+import { mkdtempSync, rmSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
 import { startTestApp, type TestApp } from '../support/app';
 import { addVenueWithPeople, signedIn, type Agent } from '../support/people';
 
@@ -15,6 +18,10 @@ const EVERYONE: Who[] = ['admin', 'rail', 'loader', 'deck', 'stage-manager'];
 let counter = 0;
 interface Ctx {
   personId: number;
+  /** Invited, not signed up: for invitation routes. */
+  invitedId: number;
+  /** Invited too: deactivated and reactivated here. */
+  spareId: number;
   sessionId: number;
   /** A line set no session holds yet, for each session opened here. */
   freeLineSet(): number;
@@ -70,6 +77,37 @@ const TABLE: Record<string, Case> = {
   'put /people/:id/roles': {
     allowed: ['admin'], okStatus: 200,
     send: (a, { personId }) => a.put(`/api/people/${personId}/roles`).send({ roles: ['deck'] }),
+  },
+  'put /people/:id': {
+    allowed: ['admin'], okStatus: 200,
+    send: (a, { personId }) => a.put(`/api/people/${personId}`).send({ name: 'Robin Ashby', email: 'deck@larkspur.example' }),
+  },
+  'post /people/:id/invitation': { allowed: ['admin'], okStatus: 200, send: (a, { invitedId }) => a.post(`/api/people/${invitedId}/invitation`) },
+  'delete /people/:id/invitation': { allowed: ['admin'], okStatus: 200, send: (a, { invitedId }) => a.delete(`/api/people/${invitedId}/invitation`) },
+  'post /people/:id/deactivate': { allowed: ['admin'], okStatus: 200, send: (a, { spareId }) => a.post(`/api/people/${spareId}/deactivate`) },
+  'post /people/:id/reactivate': { allowed: ['admin'], okStatus: 200, send: (a, { spareId }) => a.post(`/api/people/${spareId}/reactivate`) },
+  'post /auth/password-reset': {
+    allowed: WHO, okStatus: 202, // public; the same answer whether or not the address has an account
+    send: (a) => a.post('/api/auth/password-reset').send({ email: `nobody${++counter}@larkspur.example` }),
+  },
+  'post /auth/reset-password': {
+    allowed: WHO, okStatus: 404, // public; an unknown token is simply not found
+    send: (a) => a.post('/api/auth/reset-password').send({ token: 'y'.repeat(43), password: 'a long enough password' }),
+  },
+  'get /mail/outbox': { allowed: ['admin'], okStatus: 200, send: (a) => a.get('/api/mail/outbox') },
+  'post /mail/:id/send-again': {
+    allowed: ['admin'], okStatus: 404, // no message of this venue has failed
+    send: (a) => a.post('/api/mail/999999/send-again'),
+  },
+  'get /mail/recipients': { allowed: ['admin', 'rail', 'stage-manager'], okStatus: 200, send: (a) => a.get('/api/mail/recipients') },
+  'post /sessions/:id/report-mail': {
+    allowed: ['admin', 'rail', 'stage-manager'], okStatus: 202,
+    send: (a, c) => a.post(`/api/sessions/${c.sessionId}/report-mail`).send({ addresses: [`office${++counter}@larkspur.example`] }),
+  },
+  'get /dev/mailbox': { allowed: ['admin'], okStatus: 200, send: (a) => a.get('/api/dev/mailbox') },
+  'get /dev/mailbox/:id/attachments/:index': {
+    allowed: ['admin'], okStatus: 404, // the fake mail server holds no such message
+    send: (a) => a.get('/api/dev/mailbox/000000000000001-00000000/attachments/0'),
   },
   'get /venue': { allowed: EVERYONE, okStatus: 200, send: (a) => a.get('/api/venue') },
   'get /schedule': { allowed: EVERYONE, okStatus: 200, send: (a) => a.get('/api/schedule') },
@@ -205,9 +243,13 @@ describe('API access by role and venue', () => {
   let watchedLineSet: number;
   let larkspurId: number;
   let anyLineSet: number;
+  let invitedId: number;
+  let spareId: number;
+  // The development-only mailbox routes exist when a fake mail server's folder is set.
+  const mailboxDir = mkdtempSync(join(tmpdir(), 'railcall-access-mail-'));
 
   beforeAll(async () => {
-    t = await startTestApp();
+    t = await startTestApp({ config: (c) => ({ ...c, mail: { ...c.mail, mailboxDir } }) });
     agents.nobody = request.agent(t.url);
     for (const account of DEMO_ACCOUNTS) {
       const role = account.roles[0] as Role;
@@ -226,6 +268,8 @@ describe('API access by role and venue', () => {
     const [venue] = await t.database.owner.query('SELECT id FROM venue ORDER BY id LIMIT 1');
     const brick = await t.database.owner.query("INSERT INTO brick_type (venue_id, code, name, mass_kg) VALUES (?, 'access', 'Access brick', 4)", [venue.id]);
     brickTypeId = brick.insertId;
+    invitedId = (await agents.admin.post('/api/people').send({ name: 'Invited Hand', email: 'invited@larkspur.example', roles: ['deck'] })).body.person.id;
+    spareId = (await agents.admin.post('/api/people').send({ name: 'Spare Hand', email: 'spare@larkspur.example', roles: ['loader'] })).body.person.id;
   });
   const lineSet: Ctx['lineSet'] = async (number) => {
     const res = await agents.admin.get('/api/schedule');
@@ -244,8 +288,11 @@ describe('API access by role and venue', () => {
       lift_line_rating_kg, batten_rating_kg_per_m, arbor_kg, arbor_capacity_kg, bricks) VALUES (?, ?, 'Scratch', 1, '', 10, 4, 40, '[1, 9]', 200, 30, 30, 500, '{}')`,
     [venue.id, 500 + ++counter])).insertId;
   };
-  const ctx = (who: Who): Ctx => ({ personId: deckPersonId, sessionId, lineSetId: watchedLineSet, who, venueId: larkspurId, freeLineSet: () => freeLineSets.pop()!, lineSet, scratch, brickTypeId });
-  afterAll(async () => { await t.close(); });
+  const ctx = (who: Who): Ctx => ({ personId: deckPersonId, invitedId, spareId, sessionId, lineSetId: watchedLineSet, who, venueId: larkspurId, freeLineSet: () => freeLineSets.pop()!, lineSet, scratch, brickTypeId });
+  afterAll(async () => {
+    await t.close();
+    rmSync(mailboxDir, { recursive: true, force: true });
+  });
 
   it('lists every route of the app in the table', () => {
     const routes = t.railcall.routes.map((r) => `${r.method} ${r.path}`).sort();
@@ -346,6 +393,19 @@ describe('API access by role and venue', () => {
 
       // Choosing Larkspur back is allowed for this person (tests/server/venues.test.ts): the one route not refused.
       refusals(() => both, 'as a person of both venues acting on the other', ['put /me/venue']);
+    });
+
+    it('cannot edit, deactivate or invite a person at another venue, nor mail its session report', async () => {
+      expect((await other.put(`/api/people/${deckPersonId}`).send({ name: 'Taken Over', email: 'taken@venue2.example' })).status).toBe(404);
+      expect((await other.post(`/api/people/${deckPersonId}/deactivate`)).status).toBe(404);
+      expect((await other.post(`/api/people/${invitedId}/invitation`)).status).toBe(404);
+      expect((await other.delete(`/api/people/${invitedId}/invitation`)).status).toBe(404);
+      expect((await other.post(`/api/sessions/${sessionId}/report-mail`).send({ addresses: ['x@venue2.example'] })).status).toBe(404);
+      const recipients = (await other.get('/api/mail/recipients')).body.people.map((p: { email: string }) => p.email);
+      expect(recipients).not.toContain('deck@larkspur.example');
+      expect((await other.get('/api/mail/outbox')).body.messages.every((x: { to: string }) => !x.to.endsWith('@larkspur.example'))).toBe(true);
+      const [deck] = await t.database.owner.query('SELECT name, deactivated_at FROM person WHERE id = ?', [deckPersonId]);
+      expect(deck).toEqual({ name: 'Robin Ashby', deactivated_at: null });
     });
   });
 });

@@ -1,6 +1,6 @@
 import type { Request } from 'express';
 import type { PassportStatic } from 'passport';
-import { acceptInviteSchema, chooseVenueSchema, signInSchema, type Me } from '@shared/protocol/people';
+import { acceptInviteSchema, chooseVenueSchema, passwordResetRequestSchema, resetPasswordSchema, signInSchema, type Me } from '@shared/protocol/people';
 import { HttpError } from '../../middleware/http-error';
 import { SESSION_COOKIE } from '../../middleware/session';
 import { route, type RouteSpec } from '../../middleware/routes';
@@ -11,10 +11,13 @@ export interface AuthRouteDeps {
   people: PeopleService;
   passport: PassportStatic;
   throttles: RequestHandler[];
+  resetThrottles: RequestHandler[];
   /** Called after a sign-out with the ended session's id, to disconnect its sockets. */
   onSignedOut(sessionId: string): void;
   /** Called after a sign-in switched venue, to tell its other tabs. */
   onVenueChosen(sessionId: string, me: Me): void;
+  /** Called after a password reset, which ends every other sign-in of the person. */
+  onSignedOutEverywhere(personId: number): void;
 }
 
 /** passport 0.7 regenerates the session id inside logIn: a stolen pre-sign-in cookie is worth nothing. */
@@ -74,6 +77,34 @@ export function authRoutes(deps: AuthRouteDeps): RouteSpec[] {
       body: acceptInviteSchema,
       async handler({ req, body }) {
         const personId = await deps.people.acceptInvite(body.token, body.password);
+        const user = await deps.people.loadUser(personId);
+        if (!user) throw new HttpError('forbidden', 'Your account holds no role at any venue yet. Ask your technical director.');
+        await logIn(req, user);
+        return deps.people.me(user);
+      },
+    }),
+    route({
+      method: 'post',
+      path: '/auth/password-reset',
+      access: { public: true },
+      status: 202,
+      before: deps.resetThrottles,
+      body: passwordResetRequestSchema,
+      async handler({ body }) {
+        await deps.people.requestPasswordReset(body.email);
+        // The same answer for every address: nobody learns here who has an account.
+        return { message: 'If that address belongs to an account, a link to reset the password is on its way. It works once, for an hour.' };
+      },
+    }),
+    route({
+      method: 'post',
+      path: '/auth/reset-password',
+      access: { public: true },
+      before: deps.throttles.slice(0, 1),
+      body: resetPasswordSchema,
+      async handler({ req, body }) {
+        const personId = await deps.people.resetPassword(body.token, body.password);
+        deps.onSignedOutEverywhere(personId);
         const user = await deps.people.loadUser(personId);
         if (!user) throw new HttpError('forbidden', 'Your account holds no role at any venue yet. Ask your technical director.');
         await logIn(req, user);

@@ -22,3 +22,21 @@ export function signInThrottles(config: Config): RequestHandler[] {
     }),
   ];
 }
+
+/** Password reset requests, counted whether or not the address has an account (each one may send a mail). */
+export function resetThrottles(config: Config): RequestHandler[] {
+  const { windowMs, perAccount, perAddress } = config.signInThrottle;
+  const minutes = Math.round(windowMs / 60000);
+  const answer: RequestHandler = (_req, res) => {
+    res.status(429).json(new HttpError('too-many-requests', `Too many password reset requests. Wait ${minutes} minutes and try again.`).toBody());
+  };
+  const common = { windowMs, standardHeaders: 'draft-8' as const, legacyHeaders: false, handler: answer };
+  return [
+    rateLimit({ ...common, limit: perAddress }),
+    rateLimit({
+      ...common,
+      limit: perAccount,
+      keyGenerator: (req) => `reset:${String((req.body as { email?: unknown } | undefined)?.email ?? '').trim().toLowerCase()}`,
+    }),
+  ];
+}

@@ -1,13 +1,18 @@
 import { createHash, randomBytes } from 'node:crypto';
 import { In, type DataSource, type EntityManager } from 'typeorm';
 import { ROLES, type Role } from '@shared/protocol/roles';
-import type { AddPersonInput, Me, PersonRow } from '@shared/protocol/people';
+import type { AddPersonInput, EditPersonInput, Me, PersonRow, PersonStatus } from '@shared/protocol/people';
+import type { MailView } from '@shared/protocol/mail';
 import { HttpError, notFound } from '../../middleware/http-error';
+import type { MailConfig } from '../../config';
 import { Venue } from '../venue/venue.entity';
 import { Person } from './person.entity';
 import { VenueRole } from './venue-role.entity';
 import { hashPassword } from '../auth/password';
 import { resolveVenue } from '../venue/venue-access';
+import type { MailQueue } from '../mail/mail-queue';
+import { toMailView } from '../mail/mail-queue';
+import { invitationText, passwordResetText } from '../mail/messages';
 
 /** What the server knows of a signed-in person on every request. */
 export interface SignedInUser {
@@ -22,20 +27,37 @@ export interface SignedInUser {
   venueIds: number[];
 }
 
-const INVITE_DAYS = 7;
+/** Mail the people feature sends; without it (some tests) invitations are made but not mailed. */
+export interface PeopleMail {
+  queue: MailQueue;
+  config: MailConfig;
+}
+
 export const sha256 = (text: string) => createHash('sha256').update(text).digest('hex');
+const newToken = () => randomBytes(32).toString('base64url');
 const sortRoles = (roles: Role[]) => [...new Set(roles)].sort((a, b) => ROLES.indexOf(a) - ROLES.indexOf(b));
+const INVITE_GONE = 'That invitation (it may have been used, taken back or have expired)';
+const RESET_GONE = 'That password reset link (it may have been used or have expired)';
+
+export const invitePath = (token: string) => `/welcome/${token}`;
+export const resetPath = (token: string) => `/reset-password/${token}`;
 
 export class PeopleService {
-  constructor(private readonly db: DataSource) {}
+  private readonly inviteDays: number;
+  private readonly resetMinutes: number;
+
+  constructor(private readonly db: DataSource, private readonly mail?: PeopleMail) {
+    this.inviteDays = mail?.config.inviteDays ?? 7;
+    this.resetMinutes = mail?.config.resetMinutes ?? 60;
+  }
 
   /**
-   * The person with the venue they act on and their roles there; null if they hold no role anywhere.
+   * The person with the venue they act on and their roles there; null if deactivated or holding no role anywhere.
    * `wantedVenueId` is the venue they chose (see resolveVenue); without a role there, their first venue.
    */
   async loadUser(personId: number, wantedVenueId?: number | null): Promise<SignedInUser | null> {
     const person = await this.db.getRepository(Person).findOneBy({ id: personId });
-    if (!person) return null;
+    if (!person || person.deactivatedAt) return null;
     const choice = await resolveVenue(this.db, personId, wantedVenueId);
     if (!choice) return null;
     return {
@@ -76,27 +98,107 @@ export class PeopleService {
     const ids = [...new Set(roles.map((r) => r.personId))];
     if (ids.length === 0) return [];
     const people = await this.db.getRepository(Person).find({ where: { id: In(ids) }, order: { name: 'ASC' } });
-    return people.map((p) => toRow(p, roles.filter((r) => r.personId === p.id).map((r) => r.role)));
+    const mails = this.mail ? await this.mail.queue.latestFor(ids, 'invitation') : new Map<number, MailView>();
+    return people.map((p) => toRow(p, roles.filter((r) => r.personId === p.id).map((r) => r.role), mails.get(p.id) ?? null));
   }
 
-  /** Adds a person with their roles and a one-time invitation token (returned once, stored hashed). */
-  async add(venueId: number, input: AddPersonInput): Promise<{ person: PersonRow; token: string }> {
-    return this.db.transaction(async (m) => {
+  /** The venue's people who can sign in, for choosing whom to mail. */
+  async recipients(venueId: number): Promise<{ id: number; name: string; email: string }[]> {
+    return (await this.list(venueId)).filter((p) => p.status === 'active').map(({ id, name, email }) => ({ id, name, email }));
+  }
+
+  /** Adds a person with their roles and a one-time invitation (token returned once, stored hashed, mailed). */
+  async add(venueId: number, invitedBy: SignedInUser, input: AddPersonInput): Promise<{ person: PersonRow; token: string; mail: MailView | null }> {
+    const result = await this.db.transaction(async (m) => {
       const email = input.email.toLowerCase();
       if (await m.getRepository(Person).findOneBy({ email })) {
         throw new HttpError('conflict', 'Someone with that e-mail already has an account.', { email: ['Already in use'] });
       }
-      const token = randomBytes(32).toString('base64url');
+      const token = newToken();
       const person = await m.getRepository(Person).save(m.getRepository(Person).create({
         name: input.name,
         email,
         passwordHash: null,
         inviteTokenHash: sha256(token),
-        inviteExpiresAt: new Date(Date.now() + INVITE_DAYS * 24 * 3600 * 1000),
+        inviteExpiresAt: new Date(Date.now() + this.inviteDays * 24 * 3600 * 1000),
+        resetTokenHash: null,
+        resetExpiresAt: null,
+        deactivatedAt: null,
       }));
       const roles = sortRoles(input.roles);
       await m.getRepository(VenueRole).insert(roles.map((role) => ({ venueId, personId: person.id, role })));
-      return { person: toRow(person, roles), token };
+      const mail = await this.queueInvitation(m, venueId, person, token, invitedBy);
+      return { person: toRow(person, roles, mail), token, mail };
+    });
+    this.mail?.queue.kick();
+    return result;
+  }
+
+  /** A new invitation link for someone who has not signed up: the old link stops working. */
+  async resendInvitation(venueId: number, by: SignedInUser, personId: number): Promise<{ person: PersonRow; token: string; mail: MailView | null }> {
+    const result = await this.db.transaction(async (m) => {
+      const { person, roles } = await this.lockPerson(m, venueId, personId);
+      if (person.passwordHash) throw new HttpError('conflict', `${person.name} has already signed up: there is no invitation to send.`);
+      if (person.deactivatedAt) throw new HttpError('conflict', `${person.name} is deactivated. Reactivate them first.`);
+      const token = newToken();
+      person.inviteTokenHash = sha256(token);
+      person.inviteExpiresAt = new Date(Date.now() + this.inviteDays * 24 * 3600 * 1000);
+      await m.getRepository(Person).update({ id: person.id }, { inviteTokenHash: person.inviteTokenHash, inviteExpiresAt: person.inviteExpiresAt });
+      const mail = await this.queueInvitation(m, venueId, person, token, by);
+      return { person: toRow(person, roles, mail), token, mail };
+    });
+    this.mail?.queue.kick();
+    return result;
+  }
+
+  /** Takes an invitation back: its link stops working. The person stays listed, to invite again or leave. */
+  async revokeInvitation(venueId: number, personId: number): Promise<PersonRow> {
+    return this.db.transaction(async (m) => {
+      const { person, roles } = await this.lockPerson(m, venueId, personId);
+      if (person.passwordHash) throw new HttpError('conflict', `${person.name} has already signed up: there is no invitation to take back.`);
+      await m.getRepository(Person).update({ id: person.id }, { inviteTokenHash: null, inviteExpiresAt: null });
+      person.inviteTokenHash = null;
+      person.inviteExpiresAt = null;
+      return toRow(person, roles, await this.latestInvitationMail(person.id));
+    });
+  }
+
+  /** Changes a person's name and e-mail address; entries already in the log keep the name they were made under. */
+  async edit(venueId: number, personId: number, input: EditPersonInput): Promise<PersonRow> {
+    return this.db.transaction(async (m) => {
+      const { person, roles } = await this.lockPerson(m, venueId, personId);
+      const email = input.email.toLowerCase();
+      const clash = await m.getRepository(Person).findOneBy({ email });
+      if (clash && clash.id !== person.id) {
+        throw new HttpError('conflict', 'Someone else already uses that e-mail address.', { email: ['Already in use'] });
+      }
+      await m.getRepository(Person).update({ id: person.id }, { name: input.name, email });
+      return toRow({ ...person, name: input.name, email }, roles, await this.latestInvitationMail(person.id));
+    });
+  }
+
+  /**
+   * Deactivates a person: they are signed out everywhere at once (their stored sign-ins are deleted
+   * here, the caller closes their sockets) and cannot sign in; their roles and log entries stay.
+   */
+  async deactivate(venueId: number, by: SignedInUser, personId: number): Promise<PersonRow> {
+    return this.db.transaction(async (m) => {
+      const current = await this.lockVenueRoles(m, venueId);
+      const { person, roles } = await this.lockPerson(m, venueId, personId);
+      if (person.id === by.id) throw new HttpError('conflict', 'You cannot deactivate yourself. Ask another technical director.');
+      if (roles.includes('admin')) await this.keepAnAdmin(m, current, personId);
+      const now = new Date();
+      await m.getRepository(Person).update({ id: person.id }, { deactivatedAt: now, resetTokenHash: null, resetExpiresAt: null, inviteTokenHash: null, inviteExpiresAt: null });
+      await signOutEverywhere(m, person.id);
+      return toRow({ ...person, deactivatedAt: now, inviteTokenHash: null, inviteExpiresAt: null }, roles, await this.latestInvitationMail(person.id));
+    });
+  }
+
+  async reactivate(venueId: number, personId: number): Promise<PersonRow> {
+    return this.db.transaction(async (m) => {
+      const { person, roles } = await this.lockPerson(m, venueId, personId);
+      await m.getRepository(Person).update({ id: person.id }, { deactivatedAt: null });
+      return toRow({ ...person, deactivatedAt: null }, roles, await this.latestInvitationMail(person.id));
     });
   }
 
@@ -104,19 +206,14 @@ export class PeopleService {
   async setRoles(venueId: number, personId: number, wanted: Role[]): Promise<PersonRow> {
     return this.db.transaction(async (m) => {
       // Lock the venue's role rows so two admins cannot both remove the last admin at once.
-      const current = await m.getRepository(VenueRole).createQueryBuilder('r')
-        .setLock('pessimistic_write').where('r.venue_id = :venueId', { venueId }).getMany();
+      const current = await this.lockVenueRoles(m, venueId);
       const person = await m.getRepository(Person).findOneBy({ id: personId });
       if (!person || !current.some((r) => r.personId === personId)) throw notFound('That person');
       const roles = sortRoles(wanted);
-      const adminsAfter = new Set(current.filter((r) => r.role === 'admin' && r.personId !== personId).map((r) => r.personId));
-      if (roles.includes('admin')) adminsAfter.add(personId);
-      if (adminsAfter.size === 0) {
-        throw new HttpError('conflict', 'A venue needs at least one technical director (admin). Give the role to someone else first.');
-      }
+      if (!roles.includes('admin')) await this.keepAnAdmin(m, current, personId);
       await m.getRepository(VenueRole).delete({ venueId, personId });
       if (roles.length) await m.getRepository(VenueRole).insert(roles.map((role) => ({ venueId, personId, role })));
-      return toRow(person, roles);
+      return toRow(person, roles, await this.latestInvitationMail(person.id));
     });
   }
 
@@ -124,21 +221,121 @@ export class PeopleService {
   async acceptInvite(token: string, password: string): Promise<number> {
     // Hash only for a token that exists: an unknown token costs the server nothing.
     const known = await this.db.getRepository(Person).findOneBy({ inviteTokenHash: sha256(token) });
-    if (!known) throw notFound('That invitation (it may have been used or have expired)');
+    if (!known) throw notFound(INVITE_GONE);
     const passwordHash = await hashPassword(password);
     return this.db.transaction(async (m: EntityManager) => {
       const repo = m.getRepository(Person);
       const person = await repo.createQueryBuilder('p').setLock('pessimistic_write')
         .where('p.invite_token_hash = :hash', { hash: sha256(token) }).getOne();
-      if (!person || !person.inviteExpiresAt || person.inviteExpiresAt.getTime() < Date.now()) {
-        throw notFound('That invitation (it may have been used or have expired)');
+      if (!person || person.deactivatedAt || !person.inviteExpiresAt || person.inviteExpiresAt.getTime() < Date.now()) {
+        throw notFound(INVITE_GONE);
       }
       await repo.update({ id: person.id }, { passwordHash, inviteTokenHash: null, inviteExpiresAt: null });
       return person.id;
     });
   }
+
+  /**
+   * Mails a one-time reset link to a person who has signed up and is active. Answers nothing either
+   * way: whether an address has an account is not told to whoever asks.
+   */
+  async requestPasswordReset(email: string): Promise<void> {
+    const queued = await this.db.transaction(async (m) => {
+      const person = await m.getRepository(Person).createQueryBuilder('p').setLock('pessimistic_write')
+        .where('p.email = :email', { email: email.toLowerCase() }).getOne();
+      if (!person || !person.passwordHash || person.deactivatedAt || !this.mail) return false;
+      const role = await m.getRepository(VenueRole).findOne({ where: { personId: person.id }, order: { venueId: 'ASC' } });
+      if (!role) return false;
+      const token = newToken();
+      const expiresAt = new Date(Date.now() + this.resetMinutes * 60 * 1000);
+      await m.getRepository(Person).update({ id: person.id }, { resetTokenHash: sha256(token), resetExpiresAt: expiresAt });
+      const words = passwordResetText({ name: person.name, link: this.mail.config.publicUrl + resetPath(token), expiresAt });
+      await this.mail.queue.enqueue(m, { venueId: role.venueId, personId: person.id, kind: 'password-reset', to: { name: person.name, address: person.email }, ...words });
+      return true;
+    });
+    if (queued) this.mail?.queue.kick();
+  }
+
+  /** Sets a new password from a reset link (works once) and ends every other sign-in of that person. */
+  async resetPassword(token: string, password: string): Promise<number> {
+    const known = await this.db.getRepository(Person).findOneBy({ resetTokenHash: sha256(token) });
+    if (!known) throw notFound(RESET_GONE);
+    const passwordHash = await hashPassword(password);
+    return this.db.transaction(async (m) => {
+      const repo = m.getRepository(Person);
+      const person = await repo.createQueryBuilder('p').setLock('pessimistic_write')
+        .where('p.reset_token_hash = :hash', { hash: sha256(token) }).getOne();
+      if (!person || person.deactivatedAt || !person.resetExpiresAt || person.resetExpiresAt.getTime() < Date.now()) {
+        throw notFound(RESET_GONE);
+      }
+      await repo.update({ id: person.id }, { passwordHash, resetTokenHash: null, resetExpiresAt: null });
+      await signOutEverywhere(m, person.id);
+      return person.id;
+    });
+  }
+
+  private async queueInvitation(m: EntityManager, venueId: number, person: Person, token: string, by: SignedInUser): Promise<MailView | null> {
+    if (!this.mail) return null;
+    const venue = await m.getRepository(Venue).findOneByOrFail({ id: venueId });
+    const words = invitationText({
+      name: person.name,
+      venueName: venue.name,
+      link: this.mail.config.publicUrl + invitePath(token),
+      expiresAt: person.inviteExpiresAt!,
+      invitedBy: by.name,
+    });
+    const row = await this.mail.queue.enqueue(m, { venueId, personId: person.id, kind: 'invitation', to: { name: person.name, address: person.email }, ...words });
+    return toMailView(row);
+  }
+
+  private async latestInvitationMail(personId: number): Promise<MailView | null> {
+    return this.mail ? ((await this.mail.queue.latestFor([personId], 'invitation')).get(personId) ?? null) : null;
+  }
+
+  private lockVenueRoles(m: EntityManager, venueId: number): Promise<VenueRole[]> {
+    return m.getRepository(VenueRole).createQueryBuilder('r').setLock('pessimistic_write').where('r.venue_id = :venueId', { venueId }).getMany();
+  }
+
+  /** The person, locked, with their roles here; not found when they hold no role at this venue. */
+  private async lockPerson(m: EntityManager, venueId: number, personId: number): Promise<{ person: Person; roles: Role[] }> {
+    const person = await m.getRepository(Person).createQueryBuilder('p').setLock('pessimistic_write').where('p.id = :personId', { personId }).getOne();
+    const roles = person ? (await m.getRepository(VenueRole).findBy({ venueId, personId })).map((r) => r.role) : [];
+    if (!person || roles.length === 0) throw notFound('That person');
+    return { person, roles: sortRoles(roles) };
+  }
+
+  /** Refuses when taking `personId` away would leave the venue with no active technical director. */
+  private async keepAnAdmin(m: EntityManager, venueRoles: VenueRole[], personId: number): Promise<void> {
+    const others = [...new Set(venueRoles.filter((r) => r.role === 'admin' && r.personId !== personId).map((r) => r.personId))];
+    const stillActive = others.length ? (await m.getRepository(Person).findBy({ id: In(others) })).filter((p) => !p.deactivatedAt).length : 0;
+    if (stillActive === 0) {
+      throw new HttpError('conflict', 'A venue needs at least one technical director (admin) who is not deactivated. Give the role to someone else first.');
+    }
+  }
 }
 
-function toRow(person: Person, roles: Role[]): PersonRow {
-  return { id: person.id, name: person.name, email: person.email, roles: sortRoles(roles), active: person.passwordHash !== null };
+/** Deletes every stored sign-in of a person (express-session rows in MariaDB): each device is signed out on its next request. */
+async function signOutEverywhere(m: EntityManager, personId: number): Promise<void> {
+  await m.query("DELETE FROM http_session WHERE JSON_VALUE(data, '$.passport.user') = ?", [String(personId)]);
+}
+
+function statusOf(person: Pick<Person, 'passwordHash' | 'deactivatedAt' | 'inviteTokenHash' | 'inviteExpiresAt'>): PersonStatus {
+  if (person.deactivatedAt) return 'deactivated';
+  if (person.passwordHash) return 'active';
+  if (!person.inviteTokenHash || !person.inviteExpiresAt) return 'invitation-revoked';
+  return person.inviteExpiresAt.getTime() < Date.now() ? 'invitation-expired' : 'invited';
+}
+
+function toRow(person: Person, roles: Role[], invitationMail: MailView | null): PersonRow {
+  const status = statusOf(person);
+  return {
+    id: person.id,
+    name: person.name,
+    email: person.email,
+    roles: sortRoles(roles),
+    active: person.passwordHash !== null,
+    status,
+    invitationExpiresAt: status === 'invited' || status === 'invitation-expired' ? person.inviteExpiresAt!.toISOString() : null,
+    invitationMail: person.passwordHash ? null : invitationMail,
+  };
 }

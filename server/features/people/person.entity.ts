@@ -24,6 +24,17 @@ export class Person {
   @Column({ type: 'datetime', precision: 3, name: 'invite_expires_at', nullable: true })
   inviteExpiresAt: Date | null;
 
+  /** SHA-256 of the one-time password reset token, while one is out. */
+  @Column({ type: 'char', length: 64, name: 'reset_token_hash', nullable: true })
+  resetTokenHash: string | null;
+
+  @Column({ type: 'datetime', precision: 3, name: 'reset_expires_at', nullable: true })
+  resetExpiresAt: Date | null;
+
+  /** Set while the person is deactivated: they cannot sign in, and their name stays on the record. */
+  @Column({ type: 'datetime', precision: 3, name: 'deactivated_at', nullable: true })
+  deactivatedAt: Date | null;
+
   @CreateDateColumn({ type: 'datetime', precision: 3, name: 'created_at' })
   createdAt: Date;
 }

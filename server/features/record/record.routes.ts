@@ -12,7 +12,7 @@ const EVERYONE = { roles: 'any' } as const;
 const noQuery = z.object({});
 
 /** A file name from the session title: letters, digits and dashes only. */
-const fileName = (id: number, title: string, ext: string) =>
+export const fileName = (id: number, title: string, ext: string) =>
   `railcall-session-${id}-${title.toLowerCase().replace(/[^a-z0-9]+/g, '-').replace(/^-|-$/g, '').slice(0, 40) || 'report'}.${ext}`;
 
 export function recordRoutes(record: RecordService): RouteSpec[] {

@@ -1,0 +1,115 @@
+import { expect, test, type APIRequestContext, type Page } from '@playwright/test';
+import { DEMO_PASSWORD } from '../shared/protocol/http';
+import type { MailboxMessage } from '../shared/protocol/mail';
+import { laneUrl } from './support/lanes';
+import { openPhone } from './fixtures/crew';
+
+const base = laneUrl('mail');
+test.use({ baseURL: base });
+
+/** Waits until the local fake mail server holds a message that matches (read through the mailbox route). */
+async function mailFor(request: APIRequestContext, match: (m: MailboxMessage) => boolean): Promise<MailboxMessage> {
+  let found: MailboxMessage | undefined;
+  await expect.poll(async () => {
+    const res = await request.get('/api/dev/mailbox');
+    found = ((await res.json()).messages as MailboxMessage[]).find(match);
+    return Boolean(found);
+  }, { timeout: 15_000 }).toBe(true);
+  return found!;
+}
+
+/** The rail operator (over the API) opens a session on line set 7 and ends it early: a finished session. */
+async function finishedSession(request: APIRequestContext, title: string): Promise<number> {
+  expect((await request.post('/api/auth/sign-in', { data: { email: 'rail@larkspur.example', password: DEMO_PASSWORD } })).status()).toBe(200);
+  const schedule = await (await request.get('/api/schedule')).json();
+  const ls7 = schedule.lineSets.find((l: { number: number }) => l.number === 7);
+  const opened = await request.post('/api/sessions', { data: { title, lineSets: [{ lineSetId: ls7.id, remove: [], add: [] }] } });
+  const id = (await opened.json()).session.id as number;
+  for (const action of [{ type: 'join', role: 'rail' }, { type: 'end', reason: 'Rehearsal moved to tomorrow' }]) {
+    const res = await request.post(`/api/sessions/${id}/actions`, { data: { key: `mail-spec-${action.type}-${Date.now()}`, clientTimeMs: Date.now(), action } });
+    expect(res.status(), await res.text()).toBe(200);
+  }
+  return id;
+}
+
+async function openMailPage(page: Page): Promise<void> {
+  await page.goto('/admin/mail');
+  await expect(page.getByRole('heading', { name: 'Mail', exact: true })).toBeVisible();
+}
+
+test('an invitation arrives by mail; its link sets a password once and not twice', async ({ browser }) => {
+  const td = await openPhone(browser, base, 'td');
+  const { page } = td;
+  const email = `fly-${Date.now()}@larkspur.example`;
+  await page.getByRole('button', { name: 'Add a person' }).click();
+  const addDialog = page.getByRole('dialog');
+  await addDialog.getByLabel('Name').fill('Quinn Battenby');
+  await addDialog.getByLabel('E-mail').fill(email);
+  await addDialog.getByText('Loader', { exact: true }).click();
+  await addDialog.getByRole('button', { name: 'Add and make invitation' }).click();
+  const invite = page.getByRole('dialog').filter({ hasText: 'Invitation for Quinn Battenby' });
+  await expect(invite.getByTestId('invite-mail-status')).toContainText(`Railcall mails this link to ${email}`);
+  await invite.getByRole('button', { name: 'Close' }).click();
+  const row = page.getByTestId('person-row').filter({ hasText: email });
+  await expect(row.getByTestId('invitation-mail-status')).toHaveText(/Invitation mail: sent/, { timeout: 15_000 });
+
+  // The technical director's mail page shows it sent, and the local mailbox holds it.
+  await openMailPage(page);
+  await expect(page.getByTestId('outbox-row').filter({ hasText: email }).getByTestId('outbox-status')).toHaveText('Sent');
+  const message = page.getByTestId('mailbox-message').filter({ hasText: 'Your Railcall invitation to Larkspur Playhouse' }).filter({ hasText: email });
+  await message.click();
+  const link = /http:\/\/127\.0\.0\.1:\d+\/welcome\/[A-Za-z0-9_-]+/.exec(await message.locator('pre').innerText())![0];
+
+  const newcomer = await browser.newContext({ viewport: { width: 360, height: 740 }, hasTouch: true, isMobile: true });
+  const phone = await newcomer.newPage();
+  await phone.goto(link);
+  await phone.getByLabel('New password').fill('battens and bricks');
+  await phone.getByLabel('The same password again').fill('battens and bricks');
+  await phone.getByRole('button', { name: 'Set password and sign in' }).click();
+  await expect(phone).toHaveURL(/\/bridge$/);
+  await expect(phone.getByRole('heading', { name: 'Hello, Quinn' })).toBeVisible();
+
+  // The same link a second time is refused, in words.
+  const again = await (await browser.newContext()).newPage();
+  await again.goto(link);
+  await again.getByLabel('New password').fill('another password!');
+  await again.getByLabel('The same password again').fill('another password!');
+  await again.getByRole('button', { name: 'Set password and sign in' }).click();
+  await expect(again.getByRole('alert')).toContainText('not valid any more');
+});
+
+test('the stage manager mails the report of a finished session; it arrives with the PDF attached', async ({ browser, request }) => {
+  const title = `Fog drop rehang ${Date.now()}`;
+  const sessionId = await finishedSession(request, title);
+
+  const sm = await openPhone(browser, base, 'sm');
+  const { page } = sm;
+  await page.goto(`/sessions/${sessionId}`);
+  await expect(page.getByTestId('session-finished')).toBeVisible();
+  await page.getByRole('button', { name: 'Mail the report' }).click();
+  const dialog = page.getByRole('dialog').filter({ hasText: 'Mail the report' });
+  await dialog.getByRole('checkbox', { name: /Morgan Vale/ }).click();
+  // A wrong address is a field error; nothing is sent.
+  await dialog.getByLabel('Other addresses').fill('producer@larkspur.example, not-an-address');
+  await dialog.getByRole('button', { name: 'Send the report' }).click();
+  await expect(dialog.getByText('Not an e-mail address: not-an-address')).toBeVisible();
+  await dialog.getByLabel('Other addresses').fill('producer@larkspur.example');
+  await dialog.getByRole('button', { name: 'Send the report' }).click();
+  const sent = dialog.getByTestId('report-mail-sent');
+  await expect(sent).toContainText('Morgan Vale');
+  await expect(sent).toContainText('producer@larkspur.example');
+
+  // It arrives at the fake mail server, with the PDF attached.
+  const td = await openPhone(browser, base, 'td');
+  const arrived = await mailFor(td.page.request, (m) => m.subject === `Session report: ${title} (Larkspur Playhouse)` && m.to.includes('td@larkspur.example'));
+  expect(arrived.text).toContain(`Kit Harrow sends you the report of the loading session "${title}"`);
+  expect(arrived.attachments).toEqual([expect.objectContaining({ contentType: 'application/pdf', filename: expect.stringMatching(new RegExp(`^railcall-session-${sessionId}-.*\\.pdf$`)) })]);
+  const pdf = await td.page.request.get(`/api/dev/mailbox/${arrived.id}/attachments/0`);
+  expect((await pdf.body()).subarray(0, 5).toString()).toBe('%PDF-');
+
+  // And the mail page lists it, with the attachment to open.
+  await openMailPage(td.page);
+  const message = td.page.getByTestId('mailbox-message').filter({ hasText: title }).filter({ hasText: 'td@larkspur.example' });
+  await message.click();
+  await expect(message.getByTestId('mailbox-attachment')).toContainText('.pdf');
+});
