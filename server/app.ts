@@ -26,6 +26,8 @@ import { RecordService } from './features/record/record.service';
 import { recordRoutes } from './features/record/record.routes';
 import { ScheduleEditor } from './features/schedule/schedule-edit.service';
 import { ScheduleCsv } from './features/schedule/schedule-csv';
+import { FirstRun } from './features/setup/setup.service';
+import { setupRoutes } from './features/setup/setup.routes';
 import { createIo, endPersonSignIns, endSignIn, venueChosen, type RailcallServer } from './realtime/io';
 import { MailQueue } from './features/mail/mail-queue';
 import { Mailbox } from './features/mail/mailbox';
@@ -45,6 +47,8 @@ export interface AppDeps {
   logger: Logger;
   /** Connected; given when several server processes share Socket.IO through Redis. */
   redis?: RedisClient;
+  /** The one-time first-run code printed at start while no venue exists (server/index.ts); null otherwise. */
+  setupCode?: string | null;
 }
 
 export interface RailcallApp {
@@ -62,7 +66,7 @@ export interface RailcallApp {
 }
 
 /** Builds the app; only server/index.ts listens. Tests start it on port 0 with their own database. */
-export function createApp({ config, db, logger, redis }: AppDeps): RailcallApp {
+export function createApp({ config, db, logger, redis, setupCode = null }: AppDeps): RailcallApp {
   const app = express();
   const httpServer = createServer(app);
   const session = createSessionMiddleware(config);
@@ -77,7 +81,9 @@ export function createApp({ config, db, logger, redis }: AppDeps): RailcallApp {
   const reAlerts = new ReAlertTimer(sessions, logger);
 
   let io: RailcallServer | undefined;
+  const firstRun = new FirstRun(db, setupCode);
   const routes: RouteSpec[] = [
+    ...setupRoutes(firstRun, people),
     ...authRoutes({
       people,
       passport,

@@ -97,3 +97,22 @@ export interface AddPersonResult {
   inviteUrl: string;
   mail: MailView | null;
 }
+
+/** The one-time setup code the server prints at start while no venue exists: groups of letters and digits. */
+export const setupCodeSchema = z.string().trim().toUpperCase().regex(/^[A-Z0-9]{4}(-[A-Z0-9]{4}){2}$/, 'Enter the setup code shown in the server console (like ABCD-2345-WXYZ)');
+
+/** `POST /api/setup`: the first venue and its first technical director, on an empty install. */
+export const firstRunSchema = z.object({
+  code: setupCodeSchema,
+  venueName: z.string().trim().min(1, 'Enter the venue name').max(120),
+  units: z.enum(UNIT_SYSTEMS, 'Choose imperial or metric'),
+  name: z.string().trim().min(1, 'Enter your name').max(120),
+  email: z.email('Enter an e-mail address').max(254),
+  password: passwordSchema,
+});
+export type FirstRunInput = z.infer<typeof firstRunSchema>;
+
+/** `GET /api/setup`: whether this install still waits for its first venue. */
+export interface SetupStatus {
+  needed: boolean;
+}

@@ -24,6 +24,7 @@ export const routes: RouteRecordRaw[] = [
     component: PlainLayout,
     children: [
       { path: 'sign-in', name: 'sign-in', component: () => import('@/pages/SignInPage.vue'), meta: { guestOnly: true, title: 'Sign in' } },
+      { path: 'setup', name: 'setup', component: () => import('@/pages/SetupPage.vue'), meta: { guestOnly: true, title: 'Set up' } },
       { path: 'welcome/:token', name: 'welcome', component: () => import('@/pages/WelcomePage.vue'), meta: { public: true, title: 'Welcome' } },
       { path: 'forgot-password', name: 'forgot-password', component: () => import('@/pages/ForgotPasswordPage.vue'), meta: { guestOnly: true, title: 'Forgot password' } },
       { path: 'reset-password/:token', name: 'reset-password', component: () => import('@/pages/ResetPasswordPage.vue'), meta: { public: true, title: 'New password' } },

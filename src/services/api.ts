@@ -1,4 +1,4 @@
-import type { AddPersonInput, AddPersonResult, EditPersonInput, Me, PersonRow, SignInInput } from '@shared/protocol/people';
+import type { AddPersonInput, AddPersonResult, EditPersonInput, FirstRunInput, Me, SetupStatus, PersonRow, SignInInput } from '@shared/protocol/people';
 import type { MailboxMessage, MailView, RecipientRow, ReportMailInput } from '@shared/protocol/mail';
 import type { FinishPracticeInput, PracticeDetail, PracticeStart, PracticeSummary, StartPracticeInput } from '@shared/protocol/practice';
 import type { Role } from '@shared/protocol/roles';
@@ -28,6 +28,11 @@ export const signIn = (input: SignInInput) => http.post<Me>('/api/auth/sign-in',
 export const signOut = () => http.post<void>('/api/auth/sign-out');
 export const acceptInvite = (token: string, password: string) =>
   http.post<Me>('/api/auth/accept-invite', { token, password });
+
+/** Whether this install still waits for its first venue (first-run setup). */
+export const getSetupStatus = () => http.get<SetupStatus>('/api/setup');
+/** Creates the first venue and its technical director; the server signs them in. */
+export const completeSetup = (input: FirstRunInput) => http.post<Me>('/api/setup', input);
 
 /** Act on another venue where the person holds a role; the server checks it and answers the new Me. */
 export const chooseVenue = (venueId: number) => http.put<Me>('/api/me/venue', { venueId });

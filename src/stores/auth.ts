@@ -108,5 +108,5 @@ export const useAuthStore = defineStore('auth', () => {
     if (!socket.active && me.value) void load().catch(() => undefined);
   });
 
-  return { me, fromCache, loaded, signedIn, roles, homeRoute, roleHomes, hasRole, load, signIn, acceptInvite, chooseVenue, resetPassword, signOut };
+  return { me, fromCache, loaded, signedIn, roles, homeRoute, roleHomes, hasRole, load, become, signIn, acceptInvite, chooseVenue, resetPassword, signOut };
 });

@@ -63,6 +63,11 @@ const TABLE: Record<string, Case> = {
     allowed: WHO, okStatus: 404, // public; an unknown token is simply not found
     send: (a) => a.post('/api/auth/accept-invite').send({ token: 'x'.repeat(43), password: 'a long enough password' }),
   },
+  'get /setup': { allowed: WHO, okStatus: 200, send: (a) => a.get('/api/setup') },
+  'post /setup': {
+    allowed: WHO, okStatus: 404, // public; on an install with a venue, first-run setup is gone (tests/server/setup.test.ts)
+    send: (a) => a.post('/api/setup').send({ code: 'ABCD-EFGH-JKLM', venueName: 'Claimed', units: 'metric', name: 'Intruder', email: `x${++counter}@example.org`, password: 'a long enough password' }),
+  },
   'get /me': { allowed: EVERYONE, okStatus: 200, send: (a) => a.get('/api/me') },
   'put /me/venue': {
     // Choosing the venue one already acts on; another venue's id is answered 404 (below).

@@ -21,10 +21,10 @@ export interface TestApp {
   close(): Promise<void>;
 }
 
-async function listen(database: TestDatabase, config: Config): Promise<TestApp> {
+async function listen(database: TestDatabase, config: Config, setupCode: string | null = null): Promise<TestApp> {
   const db = createDataSource(config.db, { poolSize: 10 });
   await db.initialize();
-  const railcall = createApp({ config, db, logger: createLogger('silent') });
+  const railcall = createApp({ config, db, setupCode, logger: createLogger('silent') });
   await railcall.start();
   await new Promise<void>((resolve) => railcall.httpServer.listen(0, '127.0.0.1', resolve));
   const { port } = railcall.httpServer.address() as AddressInfo;
@@ -47,9 +47,10 @@ async function listen(database: TestDatabase, config: Config): Promise<TestApp> 
 }
 
 /** The real app on port 0 with a fresh database of its own, seeded with the demo venue unless told not to. */
-export async function startTestApp(opts: { seed?: boolean; config?: (c: Config) => Config } = {}): Promise<TestApp> {
+/** `setupCode`: the first-run code the app accepts, as server/index.ts would print it. */
+export async function startTestApp(opts: { seed?: boolean; config?: (c: Config) => Config; setupCode?: string } = {}): Promise<TestApp> {
   const database = await createTestDatabase();
   if (opts.seed !== false) await seedIfEmpty(database.owner);
   const config = opts.config ? opts.config(database.config) : database.config;
-  return listen(database, config);
+  return listen(database, config, opts.setupCode);
 }

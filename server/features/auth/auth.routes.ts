@@ -21,7 +21,7 @@ export interface AuthRouteDeps {
 }
 
 /** passport 0.7 regenerates the session id inside logIn: a stolen pre-sign-in cookie is worth nothing. */
-function logIn(req: Request, user: SignedInUser): Promise<void> {
+export function logIn(req: Request, user: SignedInUser): Promise<void> {
   return new Promise((resolve, reject) => {
     req.logIn(user, (error) => {
       if (error) return reject(error);
