@@ -87,7 +87,8 @@ test('with the network off, a reload shows the session from the phone, a tap wai
   await page.goto(`/sessions/${sessionId}`);
   await controlledByServiceWorker(page);
   expect((await act(rail.page.request, sessionId, { type: 'call-move' })).status()).toBe(200);
-  await expect(page.getByTestId('call-alert')).toBeVisible();
+  // After the reload the phone reconnects and catches up: on a busy machine that can take a while.
+  await expect(page.getByTestId('call-alert')).toBeVisible({ timeout: 30_000 });
   // Let the phone keep its copy of the call, then lose the signal and reload.
   await page.waitForTimeout(800);
   await context.setOffline(true);
