@@ -78,18 +78,36 @@ test('an invitation arrives by mail; its link sets a password once and not twice
   await expect(again.getByRole('alert')).toContainText('not valid any more');
 });
 
-test('the stage manager mails the report of a finished session; it arrives with the PDF attached', async ({ browser, request }) => {
-  const title = `Fog drop rehang ${Date.now()}`;
-  const sessionId = await finishedSession(request, title);
-
+test("the stage manager opens yesterday's session from the history, scrubs the replay, downloads the PDF and mails it; it arrives with the PDF attached", async ({ browser }) => {
+  test.setTimeout(120_000);
   const sm = await openPhone(browser, base, 'sm');
   const { page } = sm;
-  await page.goto(`/sessions/${sessionId}`);
-  await expect(page.getByTestId('session-finished')).toBeVisible();
-  await page.getByRole('button', { name: 'Mail the report' }).click();
+  await page.getByTestId('home-record').click();
+  await expect(page).toHaveURL(/\/record$/);
+  await page.getByTestId('history-row').filter({ hasText: 'Strike the sea-mist drapes' }).click();
+  await expect(page.getByTestId('report-title')).toHaveText('Strike the sea-mist drapes');
+  const reportUrl = page.url();
+  const sessionId = Number(reportUrl.split('/').pop());
+
+  // Scrub the replay back to the first entry, then return to the report.
+  await page.getByTestId('open-replay').click();
+  const slider = page.getByTestId('replay-slider');
+  await slider.focus();
+  await page.keyboard.press('Home');
+  await expect(page.getByTestId('replay-entry')).toContainText('#1 of');
+  await page.goBack();
+  await expect(page.getByTestId('report-title')).toBeVisible();
+
+  // The PDF downloads.
+  const downloading = page.waitForEvent('download');
+  await page.getByTestId('download-pdf').click();
+  const pdfName = (await downloading).suggestedFilename();
+  expect(pdfName).toMatch(/\.pdf$/);
+
+  // Mail it: to the technical director and one other address. A wrong address is a field error; nothing is sent.
+  await page.getByTestId('mail-report').click();
   const dialog = page.getByRole('dialog').filter({ hasText: 'Mail the report' });
   await dialog.getByRole('checkbox', { name: /Morgan Vale/ }).click();
-  // A wrong address is a field error; nothing is sent.
   await dialog.getByLabel('Other addresses').fill('producer@larkspur.example, not-an-address');
   await dialog.getByRole('button', { name: 'Send the report' }).click();
   await expect(dialog.getByText('Not an e-mail address: not-an-address')).toBeVisible();
@@ -99,17 +117,32 @@ test('the stage manager mails the report of a finished session; it arrives with 
   await expect(sent).toContainText('Morgan Vale');
   await expect(sent).toContainText('producer@larkspur.example');
 
-  // It arrives at the fake mail server, with the PDF attached.
+  // It arrives at the fake mail server, with the same PDF attached.
   const td = await openPhone(browser, base, 'td');
-  const arrived = await mailFor(td.page.request, (m) => m.subject === `Session report: ${title} (Larkspur Playhouse)` && m.to.includes('td@larkspur.example'));
-  expect(arrived.text).toContain(`Kit Harrow sends you the report of the loading session "${title}"`);
-  expect(arrived.attachments).toEqual([expect.objectContaining({ contentType: 'application/pdf', filename: expect.stringMatching(new RegExp(`^railcall-session-${sessionId}-.*\\.pdf$`)) })]);
+  const subject = 'Session report: Strike the sea-mist drapes (Larkspur Playhouse)';
+  const arrived = await mailFor(td.page.request, (m) => m.subject === subject && m.to.includes('td@larkspur.example'));
+  expect(arrived.text).toContain('Kit Harrow sends you the report of the loading session "Strike the sea-mist drapes"');
+  expect(arrived.attachments).toEqual([expect.objectContaining({ contentType: 'application/pdf', filename: pdfName })]);
+  expect(pdfName).toMatch(new RegExp(`^railcall-session-${sessionId}-`));
   const pdf = await td.page.request.get(`/api/dev/mailbox/${arrived.id}/attachments/0`);
   expect((await pdf.body()).subarray(0, 5).toString()).toBe('%PDF-');
+  await mailFor(td.page.request, (m) => m.subject === subject && m.to.includes('producer@larkspur.example'));
 
   // And the mail page lists it, with the attachment to open.
   await openMailPage(td.page);
-  const message = td.page.getByTestId('mailbox-message').filter({ hasText: title }).filter({ hasText: 'td@larkspur.example' });
+  const message = td.page.getByTestId('mailbox-message').filter({ hasText: subject }).filter({ hasText: 'td@larkspur.example' });
   await message.click();
-  await expect(message.getByTestId('mailbox-attachment')).toContainText('.pdf');
+  await expect(message.getByTestId('mailbox-attachment')).toContainText(pdfName);
+  await expect(td.page.getByTestId('outbox-row').filter({ hasText: 'producer@larkspur.example' }).getByTestId('outbox-status')).toHaveText('Sent');
+});
+
+test('a session ended early leads from its live screen to its report, where it can be mailed', async ({ browser, request }) => {
+  const title = `Fog drop rehang ${Date.now()}`;
+  const sessionId = await finishedSession(request, title);
+  const sm = await openPhone(browser, base, 'sm');
+  await sm.page.goto(`/sessions/${sessionId}`);
+  await expect(sm.page.getByTestId('session-finished')).toContainText('Rehearsal moved to tomorrow');
+  await sm.page.getByTestId('open-report').click();
+  await expect(sm.page.getByTestId('report-title')).toHaveText(title);
+  await expect(sm.page.getByTestId('mail-report')).toBeVisible();
 });

@@ -29,8 +29,8 @@ for (const [i, lane] of LANES.entries()) {
   await db.initialize();
   const railcall = createApp({ config, db, logger: createLogger('warn') });
   await railcall.start();
-  // The record's lane needs a session that finished yesterday, played through the real rules on its own clock.
-  if (lane === 'record') await playPastDrapeUnload(db, { startMs: Date.now() - 86_400_000 });
+  // The record's and the mail lanes need a session that finished yesterday, played through the real rules on its own clock.
+  if (lane === 'record' || lane === 'mail') await playPastDrapeUnload(db, { startMs: Date.now() - 86_400_000 });
   await new Promise<void>((resolve) => railcall.httpServer.listen(E2E_BASE_PORT + i, '127.0.0.1', resolve));
   console.log(`[e2e] lane ${lane} on http://127.0.0.1:${E2E_BASE_PORT + i}`);
   stops.push(async () => {
