@@ -194,7 +194,3 @@ export function venueTimeZone(settings: { timeZone?: unknown }): string {
     return 'UTC';
   }
 }
-
-/** The caution a report carries when the venue has set none of its own. */
-export const DEFAULT_CAUTION =
-  'Railcall is a coordination and planning aid. It does not replace a qualified rigger, the venue\'s own procedures, the equipment maker\'s ratings or local codes. Weights and capacities it computes come from what was entered; check them. Never leave a tie-off unattended.';

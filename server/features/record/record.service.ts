@@ -1,7 +1,8 @@
 import type { DataSource } from 'typeorm';
 import { lineSetKey } from '@shared/protocol/sessions-api';
+import { withDefaultSettings } from '@shared/protocol/schedule';
 import {
-  DEFAULT_CAUTION, dayStartMs, exportedRecordSchema, venueTimeZone,
+  dayStartMs, exportedRecordSchema, venueTimeZone,
   type ChainCheck, type HistoryAnswer, type HistoryQuery, type HistoryRow, type LineSetRecord, type SessionReport, type VerifyAnswer,
 } from '@shared/protocol/record';
 import type { LogEntry } from '@shared/protocol/session';
@@ -27,7 +28,8 @@ export class RecordService {
   private async venue(venueId: number) {
     const v = await this.db.getRepository(Venue).findOneByOrFail({ id: venueId });
     const settings = v.settings as unknown as Record<string, unknown>;
-    return { name: v.name, units: v.units, timeZone: venueTimeZone(settings), caution: typeof settings.caution === 'string' && settings.caution ? settings.caution : DEFAULT_CAUTION };
+    // The same caution the crew see on the schedule and the planner.
+    return { name: v.name, units: v.units, timeZone: venueTimeZone(settings), caution: withDefaultSettings(v.settings).caution };
   }
 
   private async names(ids: number[]): Promise<Map<number, string>> {
