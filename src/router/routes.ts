@@ -36,6 +36,8 @@ export const routes: RouteRecordRaw[] = [
     children: [
       // Never shown: the guard sends each person on to their own home.
       { path: '', name: 'landing', component: () => import('@/pages/NoRolePage.vue'), meta: { landing: true } },
+      { path: 'schedule', name: 'schedule', component: () => import('@/pages/SchedulePage.vue'), meta: { title: 'Line set schedule' } },
+      { path: 'admin/venue', name: 'admin-venue', component: () => import('@/pages/VenueSettingsPage.vue'), meta: { roles: ['admin'], title: 'Venue settings' } },
       { path: 'admin/people', name: 'admin-people', component: () => import('@/pages/AdminPeoplePage.vue'), meta: { roles: ['admin'], title: 'People' } },
       roleHome('rail', 'rail', 'Rail'),
       roleHome('bridge', 'loader', 'Loading bridge'),

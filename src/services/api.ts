@@ -2,11 +2,23 @@ import type { AddPersonInput, AddPersonResult, EditPersonInput, FirstRunInput, M
 import type { MailboxMessage, MailView, RecipientRow, ReportMailInput } from '@shared/protocol/mail';
 import type { FinishPracticeInput, PracticeDetail, PracticeStart, PracticeSummary, StartPracticeInput } from '@shared/protocol/practice';
 import type { Role } from '@shared/protocol/roles';
-import type { ScheduleView } from '@shared/protocol/schedule';
+import type {
+  BrickTypeFields,
+  BrickTypeView,
+  HistoryEntry,
+  LineSetFields,
+  LineSetHistory,
+  LineSetView,
+  PieceFields,
+  ScheduleView,
+  VenueInput,
+  VenueView,
+} from '@shared/protocol/schedule';
+import type { CsvImportResult } from '@shared/protocol/schedule-csv';
 import type { CreateSessionInput, PresenceEntry, SessionSummary } from '@shared/protocol/sessions-api';
 import type { LogEntry, SessionState } from '@shared/protocol/session';
 import type { ChainCheck, HistoryAnswer, LineSetRecord, SessionReport, VerifyAnswer } from '@shared/protocol/record';
-import { ApiFailure, http } from './http';
+import { ApiFailure, failureFromAnswer, http } from './http';
 
 /**
  * One function per server route: typed promises, no state. Stores call these.
@@ -102,3 +114,53 @@ export const getLineSetRecord = (id: number) => http.get<LineSetRecord>(`/api/re
 export const reportPdfUrl = (id: number) => `/api/record/sessions/${id}/report.pdf`;
 export const reportCsvUrl = (id: number) => `/api/record/sessions/${id}/report.csv`;
 export const recordExportUrl = (id: number) => `/api/sessions/${id}/record`;
+// ---------------------------------------------------------------------------------------------
+// The venue's data: settings, line sets, pieces, bricks, history, CSV.
+
+export const getVenue = () => http.get<{ venue: VenueView }>('/api/venue');
+export const saveVenue = (input: VenueInput) => http.put<{ venue: VenueView }>('/api/venue', input);
+export const getVenueHistory = () => http.get<{ entries: HistoryEntry[] }>('/api/venue/history');
+
+export const createLineSet = (lineSet: LineSetFields, reason?: string) =>
+  http.post<{ lineSet: LineSetView }>('/api/line-sets', { lineSet, reason });
+export const updateLineSet = (id: number, lineSet: LineSetFields, version: number, reason?: string) =>
+  http.put<{ lineSet: LineSetView }>(`/api/line-sets/${id}`, { lineSet, version, reason });
+export const deleteLineSet = (id: number, version: number, reason?: string) =>
+  http.request<void>(`/api/line-sets/${id}`, { method: 'DELETE', body: { version, reason } });
+export const setLineSetService = (id: number, version: number, inService: boolean, reason?: string) =>
+  http.put<{ lineSet: LineSetView }>(`/api/line-sets/${id}/service`, { version, inService, reason });
+export const getLineSetHistory = (id: number) => http.get<LineSetHistory>(`/api/line-sets/${id}/history`);
+
+export const addPiece = (lineSetId: number, piece: PieceFields, version: number, reason?: string) =>
+  http.post<{ lineSet: LineSetView }>(`/api/line-sets/${lineSetId}/pieces`, { piece, version, reason });
+export const updatePiece = (id: number, piece: PieceFields, version: number, reason?: string) =>
+  http.put<{ lineSet: LineSetView }>(`/api/pieces/${id}`, { piece, version, reason });
+export const deletePiece = (id: number, version: number, reason?: string) =>
+  http.request<{ lineSet: LineSetView }>(`/api/pieces/${id}`, { method: 'DELETE', body: { version, reason } });
+
+export const createBrickType = (brickType: BrickTypeFields, reason?: string) =>
+  http.post<{ brickType: BrickTypeView }>('/api/brick-types', { brickType, reason });
+export const updateBrickType = (id: number, brickType: BrickTypeFields, reason?: string) =>
+  http.put<{ brickType: BrickTypeView }>(`/api/brick-types/${id}`, { brickType, reason });
+export const deleteBrickType = (id: number, reason?: string) =>
+  http.request<void>(`/api/brick-types/${id}`, { method: 'DELETE', body: { reason } });
+export const setBridgeStock = (id: number, bridgeCount: number, reason: string) =>
+  http.put<{ brickType: BrickTypeView }>(`/api/brick-types/${id}/stock`, { bridgeCount, reason });
+
+/** Where the browser downloads the schedule CSV (a plain link: the cookie goes along). */
+export const SCHEDULE_CSV_URL = '/api/schedule/csv';
+
+async function sendCsv<T>(path: string, csv: string): Promise<T> {
+  let response: Response;
+  try {
+    response = await fetch(path, { method: 'POST', headers: { 'Content-Type': 'text/csv', Accept: 'application/json' }, body: csv, credentials: 'same-origin' });
+  } catch {
+    throw new ApiFailure(0, 'network', 'No answer from Railcall: check the connection and try again.');
+  }
+  const body = await response.json().catch(() => undefined);
+  if (!response.ok) throw failureFromAnswer(response.status, body);
+  return body as T;
+}
+export const previewScheduleCsv = (csv: string) => sendCsv<CsvImportResult>('/api/schedule/csv/preview', csv);
+export const importScheduleCsv = (csv: string, token: string) =>
+  sendCsv<CsvImportResult>(`/api/schedule/csv/import?token=${encodeURIComponent(token)}`, csv);
