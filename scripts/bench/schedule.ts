@@ -1,0 +1,94 @@
+// The schedule at size: 200 line sets of 5 pieces each, imported by CSV, then read with computed balances.
+// Run: node --import tsx scripts/bench/schedule.ts (starts its own MariaDB). Not a timed test: it reports.
+import { mkdtempSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { randomBytes } from 'node:crypto';
+import type { AddressInfo } from 'node:net';
+import request from 'supertest';
+import { stringify } from 'csv-stringify/sync';
+import { MariaDb, freePort, quote } from '../lib/mariadb.mjs';
+import { DEMO_PASSWORD } from '../../shared/protocol/http';
+import { csvHeaders } from '../../shared/protocol/schedule-csv';
+import { createApp } from '../../server/app';
+import { loadConfig } from '../../server/config';
+import { createDataSource } from '../../server/db/data-source';
+import { migrate, seedIfEmpty } from '../../server/db/setup';
+import { createLogger } from '../../server/logger';
+
+const SETS = Number(process.env.BENCH_LINE_SETS ?? 200);
+const PIECES = 5;
+const READS = Number(process.env.BENCH_READS ?? 200);
+const percentile = (sorted: number[], p: number) => sorted[Math.min(sorted.length - 1, Math.floor((p / 100) * sorted.length))];
+
+function scheduleCsv(): string {
+  const empty = Object.fromEntries(csvHeaders('imperial').map((h) => [h, '']));
+  const rows: Record<string, string>[] = [];
+  for (let n = 101; n < 101 + SETS; n++) {
+    rows.push({
+      ...empty, row: 'line set', line_set: String(n), name: `Bench set ${n}`, distance_from_plaster_line_ft: String(n / 2), purchase: n % 4 === 0 ? '2' : '1',
+      pipe: '1-1/2 in Schedule 40', pipe_weight_lb_per_ft: '2.72', batten_length_ft: '40', lift_lines_ft: '2;11;20;29;38', batten_rating_lb_per_ft: '25',
+      lift_line_rating_lb: '500', arbor_empty_lb: '90', arbor_capacity_lb: '1800', high_trim_ft: '30', low_trim_ft: '4', bricks: 'full:4;half:1',
+    });
+    for (let p = 0; p < PIECES; p++) {
+      rows.push(p % 2 === 0
+        ? { ...empty, row: 'piece', line_set: String(n), name: `Piece ${p + 1}`, weight_lb: String(10 + p * 3.5), at_ft: String(4 + p * 7), department: 'Scenery' }
+        : { ...empty, row: 'piece', line_set: String(n), name: `Piece ${p + 1}`, weight_lb: String(12 + p), spread_from_ft: String(p * 4), spread_to_ft: String(p * 4 + 10), department: 'Soft goods' });
+    }
+  }
+  return stringify(rows, { header: true, columns: csvHeaders('imperial') });
+}
+
+const db = new MariaDb({ baseDir: mkdtempSync(join(tmpdir(), 'railcall-bench-')), port: await freePort() });
+await db.start();
+try {
+  const pw = randomBytes(12).toString('hex');
+  db.sql(`CREATE DATABASE bench; CREATE USER 'bench_owner'@'127.0.0.1' IDENTIFIED BY ${quote(pw)};
+    GRANT ALL PRIVILEGES ON bench.* TO 'bench_owner'@'127.0.0.1' WITH GRANT OPTION;
+    CREATE USER 'bench_app'@'127.0.0.1' IDENTIFIED BY ${quote(pw)};`);
+  const config = loadConfig({
+    RAILCALL_DB_PORT: String(db.port), RAILCALL_DB_NAME: 'bench', RAILCALL_DB_USER: 'bench_app', RAILCALL_DB_PASSWORD: pw,
+    RAILCALL_DB_OWNER_USER: 'bench_owner', RAILCALL_DB_OWNER_PASSWORD: pw, RAILCALL_SESSION_SECRET: randomBytes(16).toString('hex'),
+    RAILCALL_CLIENT_DIR: '', RAILCALL_LOG_LEVEL: 'silent',
+  });
+  const owner = createDataSource(config.dbOwner, { poolSize: 2 });
+  await owner.initialize();
+  await migrate(owner, config);
+  await seedIfEmpty(owner);
+  // Only the bench's 200 sets: the demo's own are removed so the figures are for exactly that schedule.
+  await owner.query('DELETE FROM line_set');
+  await owner.destroy();
+
+  const appDb = createDataSource(config.db, { poolSize: 10 });
+  await appDb.initialize();
+  const railcall = createApp({ config, db: appDb, logger: createLogger('silent') });
+  await railcall.start();
+  await new Promise<void>((r) => railcall.httpServer.listen(0, '127.0.0.1', r));
+  const url = `http://127.0.0.1:${(railcall.httpServer.address() as AddressInfo).port}`;
+  const signIn = await request(url).post('/api/auth/sign-in').send({ email: 'td@larkspur.example', password: DEMO_PASSWORD });
+  const cookie = (signIn.headers['set-cookie'] as unknown as string[])[0].split(';')[0];
+
+  const csv = scheduleCsv();
+  const t0 = performance.now();
+  const preview = await request(url).post('/api/schedule/csv/preview').set('Cookie', cookie).set('Content-Type', 'text/csv').send(csv);
+  if (preview.status !== 200) throw new Error(`preview: ${JSON.stringify(preview.body).slice(0, 400)}`);
+  const t1 = performance.now();
+  const done = await request(url).post(`/api/schedule/csv/import?token=${preview.body.token}`).set('Cookie', cookie).set('Content-Type', 'text/csv').send(csv);
+  if (done.status !== 200) throw new Error(`import: ${JSON.stringify(done.body).slice(0, 400)}`);
+  const t2 = performance.now();
+
+  const times: number[] = [];
+  for (let i = 0; i < READS; i++) {
+    const s = performance.now();
+    const res = await request(url).get('/api/schedule').set('Cookie', cookie);
+    if (res.status !== 200 || res.body.lineSets.length !== SETS) throw new Error('schedule read failed');
+    times.push(performance.now() - s);
+  }
+  times.sort((a, b) => a - b);
+  console.log(`CSV of ${SETS} line sets x ${PIECES} pieces (${(csv.length / 1024).toFixed(0)} kB): preview ${((t1 - t0) / 1000).toFixed(2)} s, import ${((t2 - t1) / 1000).toFixed(2)} s, both ${((t2 - t0) / 1000).toFixed(2)} s`);
+  console.log(`GET /api/schedule with computed balances, ${READS} reads: p50 ${percentile(times, 50).toFixed(1)} ms, p99 ${percentile(times, 99).toFixed(1)} ms`);
+  await railcall.close();
+  await appDb.destroy();
+} finally {
+  await db.stop();
+}
