@@ -22,6 +22,8 @@ import { ScheduleService } from './features/schedule/schedule.service';
 import { scheduleRoutes } from './features/schedule/schedule.routes';
 import { PracticeService } from './features/practice/practice.service';
 import { practiceRoutes } from './features/practice/practice.routes';
+import { PhotoService } from './features/photos/photo.service';
+import { photoRoutes } from './features/photos/photo.routes';
 import { RecordService } from './features/record/record.service';
 import { recordRoutes } from './features/record/record.routes';
 import { ScheduleEditor } from './features/schedule/schedule-edit.service';
@@ -76,6 +78,7 @@ export function createApp({ config, db, logger, redis, setupCode = null }: AppDe
   const passport = createPassport(people);
   const schedule = new ScheduleService(db);
   const editor = new ScheduleEditor(db, schedule);
+  const photos = new PhotoService(db, config.dataDir ?? '.data/files');
   const sessions = new SessionsService(db, schedule, people);
   const presence = new Presence(db, () => io!);
   const reAlerts = new ReAlertTimer(sessions, logger);
@@ -100,6 +103,7 @@ export function createApp({ config, db, logger, redis, setupCode = null }: AppDe
     ...scheduleRoutes(schedule, editor, new ScheduleCsv(db, schedule)),
     ...sessionRoutes(sessions, presence),
     ...practiceRoutes(new PracticeService(db, schedule)),
+    ...photoRoutes(photos),
     ...recordRoutes(record),
     ...mailRoutes({
       queue: mail,
@@ -175,6 +179,7 @@ export function createApp({ config, db, logger, redis, setupCode = null }: AppDe
     async start() {
       await reAlerts.start();
       mail.start();
+      await photos.drawMissing().catch((error: unknown) => logger.warn({ err: error }, 'the demo photos could not be drawn'));
     },
     async close() {
       reAlerts.stop();

@@ -14,6 +14,7 @@ const envSchema = z.object({
   RAILCALL_DB_OWNER_PASSWORD: z.string().default(''),
   RAILCALL_SESSION_SECRET: z.string().min(16, 'RAILCALL_SESSION_SECRET must be at least 16 characters'),
   RAILCALL_CLIENT_DIR: z.string().default('dist'),
+  RAILCALL_DATA_DIR: z.string().default('.data/files'),
   /** Seed the demo venue (with its published demo passwords) into an empty database. Off in production unless set. */
   RAILCALL_SEED_DEMO: z.enum(['0', '1']).optional(),
   /** Where people reach Railcall: the links in invitation and reset mails start with it. */
@@ -82,6 +83,8 @@ export interface Config {
   signInThrottle: { windowMs: number; perAccount: number; perAddress: number };
   jsonLimit: string;
   clientDir: string | null;
+  /** Files Railcall keeps (photos of hangs), under `photos/`; kept apart from the database's own folder. */
+  dataDir?: string;
   logLevel: 'fatal' | 'error' | 'warn' | 'info' | 'debug' | 'silent';
   seedDemo: boolean;
   /** Set when several server processes share the real-time layer through Redis. */
@@ -104,6 +107,7 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
     signInThrottle: { windowMs: 15 * 60 * 1000, perAccount: 5, perAddress: 30 },
     jsonLimit: '32kb',
     clientDir: e.RAILCALL_CLIENT_DIR,
+    dataDir: e.RAILCALL_DATA_DIR,
     logLevel: e.RAILCALL_LOG_LEVEL,
     seedDemo: e.RAILCALL_SEED_DEMO ? e.RAILCALL_SEED_DEMO === '1' : e.NODE_ENV !== 'production',
     redisUrl: e.RAILCALL_REDIS_URL ?? null,

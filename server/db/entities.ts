@@ -1,3 +1,4 @@
+import { PhotoRow } from '../features/photos/photo.entity';
 import { Venue } from '../features/venue/venue.entity';
 import { Person } from '../features/people/person.entity';
 import { VenueRole } from '../features/people/venue-role.entity';
@@ -11,5 +12,5 @@ import { ActionKeyRow, LoadingSessionRow, PresenceRow, SessionEventRow } from '.
 
 export const entities = [
   Venue, Person, VenueRole, BrickTypeRow, LineSetRow, PieceRow, ScheduleChangeRow, LoadingSessionRow, SessionEventRow, ActionKeyRow,
-  PracticeRunRow, PresenceRow, MailMessageRow, MailAttachmentRow,
+  PracticeRunRow, PresenceRow, MailMessageRow, MailAttachmentRow, PhotoRow,
 ];

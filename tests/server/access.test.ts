@@ -1,5 +1,6 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import request from 'supertest';
+import sharp from 'sharp';
 import { DEMO_ACCOUNTS } from '@shared/protocol/http';
 import { DEFAULT_SETTINGS } from '@shared/protocol/schedule';
 import { csvHeaders } from '@shared/protocol/schedule-csv';
@@ -16,6 +17,8 @@ const WHO: Who[] = ['nobody', 'admin', 'rail', 'loader', 'deck', 'stage-manager'
 const EVERYONE: Who[] = ['admin', 'rail', 'loader', 'deck', 'stage-manager'];
 
 let counter = 0;
+/** A real 8 x 8 PNG for the upload routes. */
+const SMALL_PNG = await sharp({ create: { width: 8, height: 8, channels: 3, background: '#336699' } }).png().toBuffer();
 interface Ctx {
   personId: number;
   /** Invited, not signed up: for invitation routes. */
@@ -226,6 +229,22 @@ const TABLE: Record<string, Case> = {
   },
   'get /practice-runs': { allowed: EVERYONE, okStatus: 200, send: (a) => a.get('/api/practice-runs') },
   'get /practice-runs/:id': { allowed: EVERYONE, okStatus: 404, send: (a) => a.get('/api/practice-runs/999999') },
+  'get /line-sets/:id/photos': { allowed: EVERYONE, okStatus: 200, send: (a, c) => a.get(`/api/line-sets/${c.lineSetId}/photos`) },
+  'post /line-sets/:id/photos': {
+    allowed: ['admin', 'rail'], okStatus: 201,
+    send: (a, c) => a.post(`/api/line-sets/${c.lineSetId}/photos`).attach('photo', SMALL_PNG, 'hang.png'),
+  },
+  // Photo 1 is the demo's drawing of line set 7.
+  'get /photos/:id/image': { allowed: EVERYONE, okStatus: 200, send: (a) => a.get('/api/photos/1/image') },
+  'get /photos/:id/thumb': { allowed: EVERYONE, okStatus: 200, send: (a) => a.get('/api/photos/1/thumb') },
+  'delete /photos/:id': {
+    allowed: ['admin', 'rail'], okStatus: 204,
+    // A photo of its own to remove where the person may add one; otherwise the demo's (refused before anything happens).
+    async send(a, c) {
+      const added = c.who === 'admin' || c.who === 'rail' ? await a.post(`/api/line-sets/${c.lineSetId}/photos`).attach('photo', SMALL_PNG, 'gone.png') : null;
+      return a.delete(`/api/photos/${added?.body?.photo?.id ?? 1}`);
+    },
+  },
   'get /record/sessions': { allowed: EVERYONE, okStatus: 200, send: (a) => a.get('/api/record/sessions?from=2026-01-01') },
   'get /record/sessions/:id/report': { allowed: EVERYONE, okStatus: 200, send: (a, c) => a.get(`/api/record/sessions/${c.sessionId}/report`) },
   'get /record/sessions/:id/report.pdf': { allowed: EVERYONE, okStatus: 200, send: (a, c) => a.get(`/api/record/sessions/${c.sessionId}/report.pdf`) },

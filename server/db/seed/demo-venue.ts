@@ -1,3 +1,4 @@
+import { PhotoRow } from '../../features/photos/photo.entity';
 import type { EntityManager } from 'typeorm';
 import { balancingArborKg, chooseBricks, pipeMassPerMetre } from '@shared/rigging';
 import { DEMO_ACCOUNTS, DEMO_PASSWORD } from '@shared/protocol/http';
@@ -120,6 +121,11 @@ function balancedArbor(pipeKg: number, piecesKg: number, purchase: 1 | 2) {
   return { arborKg, bricks: chooseBricks(needKg, stock).picks };
 }
 
+const DEMO_PHOTOS = [
+  { number: 7, drawn: 'sea-mist-drapes', caption: 'Both drapes on the batten, seen from the deck (a drawing)' },
+  { number: 12, drawn: 'first-electric', caption: 'Fixtures and cable under the pipe (a drawing)' },
+];
+
 /** Seeds the demo venue. Runs only on an empty database (the caller checks). */
 export async function seedDemoVenue(m: EntityManager): Promise<Venue> {
   const venue = await m.getRepository(Venue).save(m.getRepository(Venue).create({
@@ -127,6 +133,7 @@ export async function seedDemoVenue(m: EntityManager): Promise<Venue> {
   }));
   await m.getRepository(BrickTypeRow).insert(BRICKS.map((b) => ({ ...b, venueId: venue.id })));
 
+  const lineSetIds = new Map<number, number>();
   for (const ls of LINE_SETS) {
     const pipeKg = BATTEN_KG_PER_M * PIPE_LENGTH_M;
     const piecesKg = ls.pieces.reduce((sum, p) => sum + p.lb * LB, 0);
@@ -154,6 +161,7 @@ export async function seedDemoVenue(m: EntityManager): Promise<Venue> {
       outOfService: ls.outOfService ?? null,
       version: 1,
     }));
+    lineSetIds.set(ls.number, row.id);
     if (ls.pieces.length) {
       await m.getRepository(PieceRow).insert(ls.pieces.map((p) => ({
         lineSetId: row.id,
@@ -167,6 +175,22 @@ export async function seedDemoVenue(m: EntityManager): Promise<Venue> {
       })));
     }
   }
+
+  // Photos the project draws itself (server/features/photos/drawings.ts); the server draws the files at start.
+  await m.getRepository(PhotoRow).insert(DEMO_PHOTOS.map((p) => ({
+    venueId: venue.id,
+    lineSetId: lineSetIds.get(p.number)!,
+    pieceId: null,
+    fileName: `demo-${p.drawn}.jpg`,
+    thumbName: `demo-${p.drawn}-thumb.jpg`,
+    width: 1200,
+    height: 800,
+    bytes: 0,
+    caption: p.caption,
+    drawn: p.drawn,
+    uploadedBy: null,
+    uploadedAtMs: Date.now(),
+  })));
 
   const passwordHash = await hashPassword(DEMO_PASSWORD);
   for (const account of DEMO_ACCOUNTS) {
