@@ -1,3 +1,4 @@
+import type { PhotoView } from '@shared/protocol/photos';
 import type { AddPersonInput, AddPersonResult, EditPersonInput, FirstRunInput, Me, SetupStatus, PersonRow, SignInInput } from '@shared/protocol/people';
 import type { MailboxMessage, MailView, RecipientRow, ReportMailInput } from '@shared/protocol/mail';
 import type { FinishPracticeInput, PracticeDetail, PracticeStart, PracticeSummary, StartPracticeInput } from '@shared/protocol/practice';
@@ -164,3 +165,24 @@ async function sendCsv<T>(path: string, csv: string): Promise<T> {
 export const previewScheduleCsv = (csv: string) => sendCsv<CsvImportResult>('/api/schedule/csv/preview', csv);
 export const importScheduleCsv = (csv: string, token: string) =>
   sendCsv<CsvImportResult>(`/api/schedule/csv/import?token=${encodeURIComponent(token)}`, csv);
+
+export async function listPhotos(lineSetId: number): Promise<PhotoView[]> {
+  return (await http.get<{ photos: PhotoView[] }>(`/api/line-sets/${lineSetId}/photos`)).photos;
+}
+export const deletePhoto = (id: number) => http.del<void>(`/api/photos/${id}`);
+/** A photo goes as multipart form data (the JSON client does not carry files). */
+export async function uploadPhoto(lineSetId: number, file: File, caption: string, pieceId?: number): Promise<PhotoView> {
+  const form = new FormData();
+  form.append('photo', file);
+  form.append('caption', caption);
+  if (pieceId) form.append('pieceId', String(pieceId));
+  let response: Response;
+  try {
+    response = await fetch(`/api/line-sets/${lineSetId}/photos`, { method: 'POST', body: form, credentials: 'same-origin', headers: { Accept: 'application/json' } });
+  } catch {
+    throw failureFromAnswer(0, null);
+  }
+  const body: unknown = await response.json().catch(() => null);
+  if (!response.ok) throw failureFromAnswer(response.status, body);
+  return (body as { photo: PhotoView }).photo;
+}
