@@ -141,8 +141,9 @@ try {
       rows.push(row);
       console.log(JSON.stringify(row));
       if (row.p99Ms < GOAL_MS && row.errors === 0) best = row;
-      // Past the goal and slower than the last level: the process is saturated, stop stepping up.
-      if (row.p99Ms > GOAL_MS * 4) break;
+      // Past the goal and hardly more actions than the level before: saturated, stop stepping up.
+      const before = rows.at(-2);
+      if (row.p99Ms > GOAL_MS * 4 && before?.servers === serverCount && row.actionsPerS < before.actionsPerS * 1.15) break;
     }
     if (best) rows.push({ ...best, best: 1 });
     await Promise.all(clients.map((c) => { c.send({ type: 'stop' }); return new Promise((r) => c.once('exit', r)); }));

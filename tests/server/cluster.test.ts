@@ -32,7 +32,7 @@ describe('two server processes behind nginx, sharing Socket.IO through Redis', (
     nginxPort = await freePort();
     nginx = await startNginx(dir, nginxPort, ports);
     url = `http://127.0.0.1:${nginxPort}`;
-  }, 120_000);
+  }, 300_000);
 
   afterAll(async () => {
     phones.forEach((p) => p.close());
@@ -91,5 +91,5 @@ describe('two server processes behind nginx, sharing Socket.IO through Redis', (
     const seqs = phones.flatMap((p) => p.answers.map((a) => (a.answer.ok ? a.answer.seq : -1)));
     expect(new Set(seqs).size).toBe(walk.length);
     expect(seqs.every((s) => s > 1)).toBe(true);
-  }, 120_000);
+  }, 300_000);
 });

@@ -70,7 +70,7 @@ describe('faults: a server killed at random moments, again and again', () => {
     env = serverEnv(database.config, port);
     url = `http://127.0.0.1:${port}`;
     server = await startServer('server', env);
-  }, 60_000);
+  }, 240_000);
   afterAll(async () => {
     await server?.stop();
     await database?.drop();
@@ -120,7 +120,7 @@ describe('faults: a server killed at random moments, again and again', () => {
     report('kill', tally);
     expect(tally.entriesLost).toBe(0);
     expect(tally.duplicated).toBe(0);
-  }, SOAK ? 900_000 : 120_000);
+  }, SOAK ? 1_800_000 : 400_000);
 });
 
 describe('faults: MariaDB restarted under a running server', () => {
@@ -144,7 +144,7 @@ describe('faults: MariaDB restarted under a running server', () => {
     // The server migrates and seeds the demo venue itself, as `npm start` does.
     server = await startServer('server', serverEnv(config, port, { RAILCALL_SEED_DEMO: '1' }));
     url = `http://127.0.0.1:${port}`;
-  }, 60_000);
+  }, 240_000);
   afterAll(async () => {
     await server?.stop();
     await mariadb?.stop();
@@ -204,7 +204,7 @@ describe('faults: Redis restarted under two running servers', () => {
       urls.push(`http://127.0.0.1:${port}`);
       servers.push(await startServer(`server ${name}`, serverEnv(database.config, port, { RAILCALL_REDIS_URL: `redis://127.0.0.1:${redisPort}` })));
     }
-  }, 90_000);
+  }, 240_000);
   afterAll(async () => {
     for (const s of servers) await s.stop();
     await redis?.stop();

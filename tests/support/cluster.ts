@@ -23,7 +23,7 @@ export class Child {
     this.exited = new Promise((r) => proc.once('exit', () => r()));
   }
 
-  async waitFor(text: string, timeoutMs = 30_000): Promise<void> {
+  async waitFor(text: string, timeoutMs = 90_000): Promise<void> {
     const start = Date.now();
     while (!this.output.includes(text)) {
       if (this.proc.exitCode !== null || this.proc.signalCode !== null) throw new Error(`${this.name} exited:\n${this.output.slice(-2000)}`);
@@ -235,7 +235,7 @@ export class RoamingPhone {
   }
 
   /** Sends until answered: the same key each time, so the server counts it once. */
-  async act(action: SessionAction, { key = randomUUID(), timeoutMs = 60_000 } = {}): Promise<Answer> {
+  async act(action: SessionAction, { key = randomUUID(), timeoutMs = 180_000 } = {}): Promise<Answer> {
     const envelope = { key, clientTimeMs: Date.now(), action };
     const start = Date.now();
     for (;;) {
@@ -243,7 +243,7 @@ export class RoamingPhone {
       try {
         await this.connected(10_000);
         this.sends += 1;
-        const answer = await this.socket.timeout(3000).emitWithAck('session:act', { sessionId: this.sessionId!, envelope }) as Answer;
+        const answer = await this.socket.timeout(10_000).emitWithAck('session:act', { sessionId: this.sessionId!, envelope }) as Answer;
         if (!answer.ok && answer.error.code === 'unavailable') {
           this.unavailable += 1;
           await sleep(200);

@@ -201,20 +201,12 @@ export class SessionsService {
   }
 
   private async decideAndRecord(user: SignedInUser, sessionId: number, envelope: ActionEnvelope, actor: Actor, claimReAlert = false): Promise<ActOutcome> {
-    const outcome = await this.db.transaction(async (m): Promise<ActOutcome> => {
+    let outcome: ActOutcome;
+    try {
+      outcome = await this.db.transaction(async (m): Promise<ActOutcome> => {
       const row = await m.getRepository(LoadingSessionRow).createQueryBuilder('s').setLock('pessimistic_write')
         .where('s.id = :sessionId AND s.venue_id = :venueId', { sessionId, venueId: user.venueId }).getOne();
       if (!row) throw notFound('That loading session');
-      // Looked up under the lock: a retry racing its original waits for it, then sees its answer.
-      if (envelope.key) {
-        const prior = await m.getRepository(ActionKeyRow).findOneBy({ sessionId, key: envelope.key });
-        if (prior) {
-          if (prior.personId !== user.id || prior.actionHash !== actionHash(envelope.action)) {
-            throw new HttpError('conflict', 'That action key was already used for another action. The phone makes a new key for each tap: reload and try again.');
-          }
-          return { answer: restore(prior.answer, row.state), entries: [], state: row.state };
-        }
-      }
       const nowMs = this.now();
       if (claimReAlert) {
         const due = silentSince(row.state, nowMs).filter((p) => p.due).map((p) => p.personId);
@@ -239,12 +231,30 @@ export class SessionsService {
         ? { ok: true, seq: row.lastSeq }
         : { ok: false, seq: row.lastSeq, error: refusalToApiError(decision) };
       if (envelope.key) {
-        await m.getRepository(ActionKeyRow).insert({ sessionId, key: envelope.key, personId: user.id, actionHash: actionHash(envelope.action), answer, createdAtMs: nowMs });
+        // The key's row is written last, under the session lock: a key seen before fails here and
+        // the whole attempt rolls back (one query less per action than looking the key up first).
+        await m.getRepository(ActionKeyRow).insert({ sessionId, key: envelope.key, personId: user.id, actionHash: actionHash(envelope.action), answer, createdAtMs: nowMs })
+          .catch((error) => { throw isDuplicateKey(error) ? new KeyTaken() : error; });
       }
       return { answer: restore(answer, row.state), entries, state: row.state };
-    });
+      });
+    } catch (error) {
+      if (!(error instanceof KeyTaken)) throw error;
+      return this.answerAgain(user, sessionId, envelope);
+    }
     this.committed(sessionId, user.venueId, outcome.entries, outcome.state);
     return outcome;
+  }
+
+  /** A retry (the key's first attempt has committed, maybe while this one waited for the lock): its first answer, nothing done again. */
+  private async answerAgain(user: SignedInUser, sessionId: number, envelope: ActionEnvelope): Promise<ActOutcome> {
+    const prior = await this.db.getRepository(ActionKeyRow).findOneBy({ sessionId, key: envelope.key });
+    const row = await this.db.getRepository(LoadingSessionRow).findOneBy({ id: sessionId, venueId: user.venueId });
+    if (!prior || !row) throw notFound('That loading session');
+    if (prior.personId !== user.id || prior.actionHash !== actionHash(envelope.action)) {
+      throw new HttpError('conflict', 'That action key was already used for another action. The phone makes a new key for each tap: reload and try again.');
+    }
+    return { answer: restore(prior.answer, row.state), entries: [], state: row.state };
   }
 
   /** A session's newest entry and state, whatever the venue (for phones already admitted to its room). */
@@ -291,6 +301,13 @@ export class SessionsService {
     };
   }
 }
+
+/** The action key was there before this attempt: roll it back and answer as the first time. */
+class KeyTaken extends Error {}
+const isDuplicateKey = (error: unknown) => {
+  const e = error as { code?: string; driverError?: { code?: string } };
+  return (e.code ?? e.driverError?.code) === 'ER_DUP_ENTRY';
+};
 
 const actionHash = (action: unknown) => createHash('sha256').update(canonicalJson(action)).digest('hex');
 
