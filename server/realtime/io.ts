@@ -38,7 +38,11 @@ async function followSignIn(socket: RailcallSocket, loadUser: LoadUser): Promise
   const req = socket.request as EngineRequest;
   if (!req.session) return true;
   const session = req.session;
-  const alive = await new Promise<boolean>((resolve) => session.reload((error) => resolve(!error)));
+  const failed = await new Promise<Error | null>((resolve) => session.reload((error?: unknown) => resolve((error as Error | undefined) ?? null)));
+  // The store could not be read (database restarting): not a sign-out. The event goes on as the person signed in;
+  // an action then meets the same outage and is answered "unavailable", and the phone sends it again.
+  if (failed && failed.message !== 'failed to load session') return true;
+  const alive = !failed;
   // reload() puts a fresh session object on the request.
   const wanted = alive ? req.session.venueId : undefined;
   if (!alive || (wanted !== undefined && wanted !== socket.data.user.venueId)) {

@@ -66,7 +66,7 @@ export function serverEnv(config: Config, port: number, extra: Record<string, st
     RAILCALL_SESSION_SECRET: config.sessionSecret,
     RAILCALL_CLIENT_DIR: '',
     RAILCALL_SEED_DEMO: '0',
-    RAILCALL_LOG_LEVEL: 'error',
+    RAILCALL_LOG_LEVEL: process.env.RAILCALL_TEST_SERVER_LOG ?? 'error',
     ...extra,
   };
 }
@@ -238,20 +238,23 @@ export class RoamingPhone {
   async act(action: SessionAction, { key = randomUUID(), timeoutMs = 180_000 } = {}): Promise<Answer> {
     const envelope = { key, clientTimeMs: Date.now(), action };
     const start = Date.now();
+    let last = 'nothing sent';
     for (;;) {
-      if (Date.now() - start > timeoutMs) throw new Error(`${this.email}: ${action.type} got no answer in ${timeoutMs} ms`);
+      if (Date.now() - start > timeoutMs) throw new Error(`${this.email}: ${action.type} got no answer in ${timeoutMs} ms (last: ${last})`);
       try {
         await this.connected(10_000);
         this.sends += 1;
         const answer = await this.socket.timeout(10_000).emitWithAck('session:act', { sessionId: this.sessionId!, envelope }) as Answer;
         if (!answer.ok && answer.error.code === 'unavailable') {
+          last = 'unavailable';
           this.unavailable += 1;
           await sleep(200);
           continue;
         }
         this.answers.push({ key, action, answer });
         return answer;
-      } catch {
+      } catch (error) {
+        last = String(error);
         await sleep(100);
       }
     }
