@@ -85,7 +85,7 @@ test('a complete two-drape unload, tapped on five phones', async ({ browser }) =
   await loader1.page.getByTestId('confirm-step').click();
   await expect(loader1.page.getByTestId('confirm-step')).toBeHidden();
   await loader2.page.getByTestId('confirm-step').click();
-  await expect(loader2.page.locator('.q-notification').filter({ hasText: 'already done' })).toBeVisible();
+  await expect(loader2.page.getByTestId('notice').filter({ hasText: 'already done' })).toBeVisible();
   await shot(loader2.page, 'loader-refused');
   loader2.gate!.release();
   await expect(loader2.page.getByTestId('confirm-step')).toBeHidden();
@@ -136,7 +136,7 @@ test('a complete two-drape unload, tapped on five phones', async ({ browser }) =
   // Filtered by person: only the deck crew's entries.
   await sm.page.getByTestId('log-filter-person').click();
   await sm.page.getByRole('option', { name: deck.name }).click();
-  const whoCells = await rows.evaluateAll((trs) => trs.map((tr) => tr.children[2].textContent?.trim()));
+  const whoCells = await rows.getByTestId('log-who').allTextContents();
   expect(whoCells.length).toBeGreaterThan(0);
   expect(new Set(whoCells)).toEqual(new Set([deck.name]));
 

@@ -1,20 +1,24 @@
-import { Notify } from 'quasar';
 import { failureMessage } from '@/services/http';
+import { useNoticesStore, type NoticeKind } from '@/stores/notices';
 
 /**
- * Feedback in plain words through Quasar Notify. Plain functions, so route guards
- * (outside any component) can use them too.
+ * Feedback in plain words, shown by components/NoticeStack in the screen's flow. Plain functions,
+ * so route guards (outside any component) can use them too once pinia is installed.
  */
 export function useNotice() {
+  const push = (kind: NoticeKind, message: string, tag?: string) => useNoticesStore().push(kind, message, { tag });
   return {
-    failure(error: unknown): void {
-      Notify.create({ type: 'negative', message: failureMessage(error), timeout: 6000, actions: [{ label: 'Dismiss', flat: true }] });
+    failure(error: unknown, tag?: string): void {
+      push('negative', failureMessage(error), tag);
     },
-    success(message: string): void {
-      Notify.create({ type: 'positive', message, timeout: 3000 });
+    success(message: string, tag?: string): void {
+      push('positive', message, tag);
     },
-    info(message: string): void {
-      Notify.create({ type: 'info', message, timeout: 4000 });
+    info(message: string, tag?: string): void {
+      push('info', message, tag);
+    },
+    warning(message: string, tag?: string): void {
+      push('warning', message, tag);
     },
   };
 }

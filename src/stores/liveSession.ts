@@ -1,6 +1,5 @@
 import { defineStore } from 'pinia';
 import { computed, ref, shallowRef, toRaw } from 'vue';
-import { Notify } from 'quasar';
 import type { Ack } from '@shared/protocol/ack';
 import type { PresenceEntry, SessionSummary } from '@shared/protocol/sessions-api';
 import {
@@ -17,7 +16,24 @@ import { ApiFailure, failureMessage } from '@/services/http';
 import { dropTap, loadSession, loadTaps, saveSession, saveTap } from '@/services/offlineCache';
 import { socket } from '@/services/socket';
 import { makeActionKey } from '@/utils/actionKey';
+import { formatMass } from '@shared/rigging';
 import { useAuthStore } from './auth';
+import { useNoticesStore } from './notices';
+
+/** The tag of this session's refusal notices: a tap taken afterwards clears them. */
+const REFUSAL_TAG = 'session-refusal';
+
+/** What a person is told once the server has taken a record they made (others show on the screen). */
+export function acceptedWords(action: SessionAction, units: 'metric' | 'imperial' = 'metric'): string | null {
+  if (action.type === 'record-test') {
+    if (action.result === 'balanced') return 'Test recorded: balanced.';
+    const by = action.estimateKg !== undefined ? ` by ${formatMass(action.estimateKg, units)}` : '';
+    return `Test recorded: ${action.result}${by}${action.tiedOff ? ', tied off' : ''}.`;
+  }
+  if (action.type === 'note') return 'Note added to the log.';
+  if (action.type === 'end') return 'Session ended; the reason is in the log.';
+  return null;
+}
 
 /** The app's one socket, typed by the shared event maps (shared/protocol/events.ts). */
 const live = socket;
@@ -70,6 +86,7 @@ export function contiguousSeq(entries: readonly LogEntry[]): number {
  */
 export const useLiveSessionStore = defineStore('liveSession', () => {
   const auth = useAuthStore();
+  const notices = useNoticesStore();
 
   const sessionId = ref<number | null>(null);
   const summary = ref<SessionSummary | null>(null);
@@ -156,6 +173,7 @@ export const useLiveSessionStore = defineStore('liveSession', () => {
     watching.value = false;
     alert.value = null;
     lastRefusal.value = null;
+    notices.clearTag(REFUSAL_TAG);
     loadError.value = null;
     cachedAtMs.value = null;
     for (const pending of outbox.value) settle.get(pending.envelope.key)?.({ ok: false, code: 'closed', message: 'The session was closed on this phone.' });
@@ -264,7 +282,7 @@ export const useLiveSessionStore = defineStore('liveSession', () => {
       send(outbox.value[outbox.value.length - 1]);
     }
     if (stale) {
-      Notify.create({ type: 'warning', message: `${stale} ${stale === 1 ? 'tap' : 'taps'} saved on this phone more than 10 minutes ago ${stale === 1 ? 'was' : 'were'} not sent: tap again if still needed.`, timeout: 8000 });
+      notices.push('warning', `${stale} ${stale === 1 ? 'tap' : 'taps'} saved on this phone more than 10 minutes ago ${stale === 1 ? 'was' : 'were'} not sent: tap again if still needed.`);
     }
   }
 
@@ -275,7 +293,15 @@ export const useLiveSessionStore = defineStore('liveSession', () => {
 
   function refused(message: string): void {
     lastRefusal.value = message;
-    Notify.create({ type: 'negative', message, timeout: 7000, actions: [{ label: 'Dismiss', flat: true }] });
+    notices.push('negative', message, { tag: REFUSAL_TAG });
+  }
+
+  /** A tap the server took: an old refusal no longer stands, and a record says it was kept. */
+  function accepted(action: SessionAction): void {
+    lastRefusal.value = null;
+    notices.clearTag(REFUSAL_TAG);
+    const words = acceptedWords(action, auth.me?.venue.units ?? 'metric');
+    if (words) notices.push('positive', words);
   }
 
   /** True while the tap still waits in the outbox of the session it was made in. */
@@ -302,6 +328,7 @@ export const useLiveSessionStore = defineStore('liveSession', () => {
       settle.delete(pending.envelope.key);
       if (res.ok) {
         takeState(res.state, res.seq);
+        accepted(pending.envelope.action);
         done?.({ ok: true, seq: res.seq });
         return;
       }

@@ -58,6 +58,19 @@ export function clockTime(ms: number): string {
   return new Date(ms).toLocaleTimeString([], { hour: '2-digit', minute: '2-digit', second: '2-digit', hour12: false });
 }
 
+/**
+ * When a log entry happened, as the log shows it: the time of day alone when it is today,
+ * with the day ("1 Dec, 14:03:27") when not, and the year too when not this year.
+ */
+export function logTime(ms: number, nowMs: number = Date.now()): string {
+  const at = new Date(ms);
+  const now = new Date(nowMs);
+  if (at.toDateString() === now.toDateString()) return clockTime(ms);
+  const sameYear = at.getFullYear() === now.getFullYear();
+  const day = at.toLocaleDateString([], { day: 'numeric', month: 'short', ...(sameYear ? {} : { year: 'numeric' }) });
+  return `${day}, ${clockTime(ms)}`;
+}
+
 /** A plan step in the venue's units, for plan lists and the big step line. */
 export function stepWords(step: PlanStep, brickTypes: BrickType[], units: Units, pieceNames: Record<string, string> = {}): string {
   const piece = step.pieceId ? (pieceNames[step.pieceId] ?? step.pieceId) : null;

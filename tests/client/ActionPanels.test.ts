@@ -197,7 +197,7 @@ describe('WatchActionPanel', () => {
   it('says what the session waits on and adds a note to the log', async () => {
     const w = panel(WatchActionPanel, calledDeckSilent(), kit.personId);
     expect(w.get('[data-testid="next-text"]').text()).toContain('Robin Ashby must answer "clear"');
-    await w.get('input').setValue('  Drape B has a torn tie  ');
+    await w.get('textarea').setValue('  Drape B has a torn tie  ');
     await w.get('form').trigger('submit');
     expect(w.emitted('act')).toEqual([[{ type: 'note', text: 'Drape B has a torn tie' }]]);
   });

@@ -2,6 +2,7 @@ import { afterEach, describe, expect, it } from 'vitest';
 import { mount, type VueWrapper } from '@vue/test-utils';
 import { nextTick } from 'vue';
 import { Quasar } from 'quasar';
+import { createPinia } from 'pinia';
 import SessionAlertOverlay from '@/components/session/SessionAlertOverlay.vue';
 import { begun, jo, play, sam } from './support/session';
 
@@ -16,7 +17,7 @@ function overlay(busy = false) {
   wrapper = mount(SessionAlertOverlay, {
     props: { state: called, personId: sam.personId, busy },
     attachTo: document.body,
-    global: { plugins: [Quasar] },
+    global: { plugins: [Quasar, createPinia()] },
   });
   return wrapper;
 }

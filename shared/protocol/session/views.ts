@@ -223,7 +223,7 @@ export type DescribableEntry = Omit<LogDraft, 'lineSetId' | 'stepIndex'> & {
  * Line set names come from the entry's details, else from `state`, else the id.
  */
 export function describeEntry(entry: DescribableEntry, state?: SessionState, units?: Units): string {
-  const who = entry.personName ?? (entry.role === 'system' ? 'Railcall' : 'Someone');
+  const who = entry.role === 'system' ? 'Railcall' : (entry.personName ?? 'Someone');
   const d = entry.details as Record<string, any>;
   const lsName: string | undefined =
     d.lineSetName ?? state?.lineSets.find((l) => l.id === entry.lineSetId)?.name ?? entry.lineSetId;
