@@ -183,14 +183,14 @@ function walk(lane: Lane, theme: 'dark' | 'light') {
     // A test the server refuses (beyond the rope lock, not tied off), then the corrected record.
     await r.getByLabel(/Out of balance by/).fill('100');
     await r.getByRole('button', { name: 'Pipe-heavy' }).click();
-    const refusal = r.getByText(/more out of balance than the rope lock holds/);
+    const refusal = r.getByTestId('notice').filter({ hasText: /more out of balance than the rope lock holds/ });
     await expect(refusal).toBeVisible();
     await expectScreenSound(r, 'rail, test refused', rail.errors);
     await r.getByLabel(/Out of balance by/).fill('');
     await r.getByRole('button', { name: 'Tested: balanced' }).click();
     for (const p of everyone) await expect(p.page.getByTestId('session-finished')).toBeVisible();
     await expect.soft(refusal, 'the old refusal clears once the corrected record is taken').toBeHidden();
-    await expect.soft(r.getByText(/Recorded/), 'the rail sees the record was taken').toBeVisible();
+    await expect.soft(r.getByTestId('notice').filter({ hasText: 'Test recorded: balanced.' }), 'the rail sees the record was taken').toBeVisible();
     await checkAll('session finished', everyone);
 
     // The stage manager's log at phone width: every entry's sentence on screen, newest first.
