@@ -8,3 +8,4 @@ export * from './bricks';
 export * from './beam';
 export * from './plan';
 export * from './check';
+export * from './correct';

@@ -104,3 +104,12 @@ export function dateTime(ms: number, timeZone?: string): string {
     timeZone, day: 'numeric', month: 'short', year: 'numeric', hour: '2-digit', minute: '2-digit', second: '2-digit', hourCycle: 'h23',
   });
 }
+/**
+ * The computed balance (from the schedule's weights) and, once the rail has tested the set, the
+ * measured one beside it: "Computed: balanced · Measured at the rail: pipe-heavy by 5 lb".
+ */
+export function balanceFigures(lineSet: { imbalanceKg: number; measuredKg?: number }, units: Units): string {
+  const computed = `Computed: ${balanceWords(lineSet.imbalanceKg, units).toLowerCase()}`;
+  return lineSet.measuredKg === undefined ? computed : `${computed} · Measured at the rail: ${balanceWords(lineSet.measuredKg, units).toLowerCase()}`;
+}
+

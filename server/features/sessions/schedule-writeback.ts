@@ -1,5 +1,6 @@
 import type { EntityManager } from 'typeorm';
-import type { LineSetState, SessionState } from '@shared/protocol/session';
+import type { SessionState } from '@shared/protocol/session';
+import type { LineSetLoad } from '@shared/rigging';
 import { BrickTypeRow } from '../schedule/brick-type.entity';
 import { LineSetRow } from '../schedule/line-set.entity';
 import { PieceRow } from '../schedule/piece.entity';
@@ -19,8 +20,11 @@ export async function writeBackSchedule(m: EntityManager, venueId: number, plan:
   if (before.phase !== 'finished' && after.phase === 'finished' && after.endedHow === 'ended') {
     for (const ls of after.lineSets) {
       const stored = plan.lineSets.find((p) => p.key === ls.id);
-      if (!stored || ls.tests.length > 0 || !ls.done.some(Boolean)) continue;
-      await writeLoad(m, venueId, stored, ls, author);
+      if (!stored || ls.stage === 'tested' || !ls.done.some(Boolean)) continue;
+      // Never tested: the whole change; tested, then stopped during its correction: the correction's bricks so far.
+      const correction = ls.corrections?.at(-1);
+      if (ls.tests.length === 0) await writeLoad(m, venueId, stored, ls.startLoad, ls.load, author);
+      else if (correction) await writeLoad(m, venueId, stored, correction.loadBefore, ls.load, author);
       await setFlag(m, venueId, stored.scheduleId, true, author);
     }
   }
@@ -37,8 +41,10 @@ async function writeBackTestedLineSets(m: EntityManager, venueId: number, plan: 
     if (ls.tests.length === was.tests.length) continue;
     const stored = plan.lineSets.find((p) => p.key === ls.id);
     if (!stored) continue;
-    const firstTest = was.tests.length === 0;
-    if (firstTest) await writeLoad(m, venueId, stored, ls, author);
+    // The first test writes the whole change; a test after a correction writes the correction's bricks.
+    const correction = ls.corrections?.at(-1);
+    if (was.tests.length === 0) await writeLoad(m, venueId, stored, ls.startLoad, ls.load, author);
+    else if (correction && was.stage !== 'tested') await writeLoad(m, venueId, stored, correction.loadBefore, ls.load, author);
     await setFlag(m, venueId, stored.scheduleId, ls.flagged, author);
   }
 }
@@ -51,7 +57,8 @@ async function setFlag(m: EntityManager, venueId: number, lineSetId: number, fla
   await recordChange(m, { venueId, subject: 'line-set', subjectId: lineSetId, lineSetId, action: 'update', changes: { outOfBalance: [!!row.outOfBalance, flagged] } }, author);
 }
 
-async function writeLoad(m: EntityManager, venueId: number, stored: StoredPlan['lineSets'][number], ls: LineSetState, author: ChangeAuthor): Promise<void> {
+async function writeLoad(m: EntityManager, venueId: number, stored: StoredPlan['lineSets'][number], from: LineSetLoad, to: LineSetLoad, author: ChangeAuthor): Promise<void> {
+  const ls = { startLoad: from, load: to };
   const lineSetId = stored.scheduleId;
   const row = await m.getRepository(LineSetRow).findOneBy({ id: lineSetId, venueId });
   if (!row) return;

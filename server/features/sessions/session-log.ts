@@ -18,12 +18,14 @@ export interface EntryAuthor {
 export async function appendEntries(m: EntityManager, row: LoadingSessionRow, drafts: LogDraft[], author: EntryAuthor, nowMs: number): Promise<LogEntry[]> {
   const entries: LogEntry[] = [];
   for (const draft of drafts) {
+    // Railcall's own entries (its closing "finished", re-alerts) have no person, whoever tapped last.
+    const own = draft.role === 'system';
     const unsigned: Omit<LogEntry, 'hash'> = {
       seq: row.lastSeq + 1,
       serverTimeMs: nowMs,
-      clientTimeMs: author.clientTimeMs,
-      personId: author.personId,
-      personName: author.personName,
+      clientTimeMs: own ? null : author.clientTimeMs,
+      personId: own ? null : author.personId,
+      personName: own ? 'Railcall' : author.personName,
       role: draft.role ?? null,
       kind: draft.kind,
       lineSetId: draft.lineSetId ?? null,

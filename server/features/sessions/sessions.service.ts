@@ -77,8 +77,11 @@ export class SessionsService {
             brickTypes: p.input.brickTypes,
             ropeLockLimitKg: p.input.ropeLockLimitKg,
             pieceNames: p.pieceNames,
+            ...(p.input.arborCapacityKg !== undefined ? { arborCapacityKg: p.input.arborCapacityKg } : {}),
           })),
           settings: { minCrew: venue.settings.minCrew, reAlertSeconds: venue.settings.reAlertSeconds },
+          // The bridge as the plan starts from; every brick step moves it, and corrections load from it.
+          bridgeStock: { ...planned[0]?.input.bridgeStock },
         });
       } catch (error) {
         if (error instanceof SessionPlanError) throw new HttpError('bad-input', `The plan cannot be run: ${error.message}`);

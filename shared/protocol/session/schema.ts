@@ -66,6 +66,11 @@ export const sessionActionSchema = z.discriminatedUnion('type', [
   z.object({ type: z.literal('call-loading-complete') }),
   z.object({ type: z.literal('confirm-untie') }),
   recordTestSchema,
+  z.object({
+    type: z.literal('plan-correction'),
+    /** The flagged line set to correct; the one tested last when left out. */
+    lineSetId: lineSetIdSchema.optional(),
+  }),
   z.object({ type: z.literal('call-hold'), reason: said(REASON_MAX_CHARS).optional() }),
   z.object({ type: z.literal('ack-hold') }),
   z.object({ type: z.literal('release-hold') }),

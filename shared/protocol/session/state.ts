@@ -2,7 +2,7 @@
  * The state of one live loading session: plain JSON, stored whole in one column and sent to phones.
  * Only `decide` (machine.ts) makes a new state from an old one.
  */
-import { applyStep, loadImbalanceKg, type BrickType, type LineSetLoad, type PlanStep, type StepKind } from '../../rigging';
+import { applyStep, loadImbalanceKg, type BrickCounts, type BrickType, type LineSetLoad, type PlanStep, type StepKind } from '../../rigging';
 import type { Role, SessionRole } from '../roles';
 import { DEFAULT_SETTINGS, MAX_LINE_SETS, MAX_STEPS, sessionSettingsSchema, type SessionSettings, type TestResult } from './schema';
 
@@ -57,6 +57,17 @@ export interface BalanceTest {
   byPersonId: number;
 }
 
+/** A correction worked out from a test out of balance: its steps follow the plan's, from `fromStep`. */
+export interface Correction {
+  fromStep: number;
+  /** What the rail measured (kg at the batten, positive = pipe-heavy) and what was computed then. */
+  measuredKg: number;
+  computedKg: number;
+  /** The load before the correction's first step (the schedule learns the difference at its test). */
+  loadBefore: LineSetLoad;
+  atMs: number;
+}
+
 export interface LineSetState {
   id: string;
   name: string;
@@ -84,6 +95,15 @@ export interface LineSetState {
   tests: BalanceTest[];
   /** The last test found it out of balance; a later balanced test clears it. */
   flagged: boolean;
+  /**
+   * The imbalance by the rail's measure: the last test's figure (0 when balanced), moved by every step
+   * confirmed since. Undefined until the first test. Shown beside the computed `imbalanceKg`.
+   */
+  measuredKg?: number;
+  /** Corrections worked out for this set, oldest first (missing on sessions stored before corrections). */
+  corrections?: Correction[];
+  /** Most the arbor may carry, empty arbor included, if the venue knows it. */
+  arborCapacityKg?: number;
 }
 
 export interface Hold {
@@ -118,6 +138,8 @@ export interface SessionState {
   /** 'complete': every line set tested in balance; 'ended': the lead ended it with a reason. */
   endedHow: 'complete' | 'ended' | null;
   endReason: string | null;
+  /** Bricks on the loading bridge, as this session has moved them (missing on sessions stored before corrections). */
+  bridgeStock?: BrickCounts;
 }
 
 export interface LineSetInput {
@@ -131,11 +153,14 @@ export interface LineSetInput {
   /** Out-of-balance the rope lock holds, kg at the batten (venue setting; 50 lb by default). */
   ropeLockLimitKg: number;
   pieceNames?: Record<string, string>;
+  arborCapacityKg?: number;
 }
 
 export interface CreateSessionInput {
   lineSets: LineSetInput[];
   settings?: Partial<SessionSettings>;
+  /** Bricks on the loading bridge when the session opens, for working out corrections. */
+  bridgeStock?: BrickCounts;
 }
 
 /** Steps the loaders or deck crew confirm one at a time while the rail is clear. */
@@ -218,6 +243,8 @@ export function createSessionState(input: CreateSessionInput): SessionState {
       loadingCompleteAtMs: null,
       tests: [],
       flagged: false,
+      corrections: [],
+      ...(ls.arborCapacityKg !== undefined ? { arborCapacityKg: ls.arborCapacityKg } : {}),
     };
   });
   return {
@@ -235,6 +262,7 @@ export function createSessionState(input: CreateSessionInput): SessionState {
     endedAtMs: null,
     endedHow: null,
     endReason: null,
+    bridgeStock: { ...input.bridgeStock },
   };
 }
 
@@ -296,5 +324,17 @@ export function missingStepRoles(state: SessionState): MissingStepRole[] {
     if (lineSetNames.length) missing.push({ role, lineSetNames });
   }
   return missing;
+}
+
+/** True when the set's plan has nothing to hang, take off or move: a test only. */
+export function isTestOnly(lineSet: LineSetState): boolean {
+  return !lineSet.steps.some(isWorkStep);
+}
+
+/** The step index where this step's correction starts, or null when the step is the plan's own. */
+export function correctionOf(lineSet: LineSetState, index: number): Correction | null {
+  const all = lineSet.corrections ?? [];
+  for (let i = all.length - 1; i >= 0; i--) if (index >= all[i].fromStep) return all[i];
+  return null;
 }
 

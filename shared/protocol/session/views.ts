@@ -8,6 +8,7 @@ import { decide, type LogDraft } from './machine';
 import { ACTION_TYPES, type ActionType, type SessionAction } from './schema';
 import {
   activeLineSet,
+  correctionOf,
   crewShortfall,
   nextWorkStepIndex,
   notYetClear,
@@ -15,7 +16,7 @@ import {
   type Participant,
   type SessionState,
 } from './state';
-import { balanceText, capital, holdText, lineSetLabel, nameList, sessionDuty, stepText } from './words';
+import { balanceText, bricksText, capital, holdText, lineSetLabel, nameList, sessionDuty, stepText } from './words';
 
 export interface Named {
   personId: number;
@@ -36,6 +37,10 @@ function probe(type: ActionType, state: SessionState, me: Participant): SessionA
       return { type, stepIndex: ls ? Math.max(0, nextWorkStepIndex(ls)) : 0 };
     case 'record-test':
       return { type, result: 'balanced' };
+    case 'plan-correction': {
+      const flagged = state.lineSets.find((l) => l.flagged && l.stage === 'tested');
+      return { type, ...(flagged ? { lineSetId: flagged.id } : {}) };
+    }
     case 'call-hold':
       return { type };
     case 'note':
@@ -119,6 +124,13 @@ export function nextStepFor(state: SessionState, personId: number): NextStep {
   const ls = activeLineSet(state);
   const label = ls ? lineSetLabel(ls.name) : '';
   const main = actions[0];
+  if (state.phase === 'finished') {
+    // Nothing is left to do: no "Wait.", no corrections offered.
+    return {
+      actions: [],
+      text: state.endedHow === 'ended' ? `The session was ended early: "${state.endReason}".` : 'The session has finished: every line set is tested in balance.',
+    };
+  }
   if (!me) return { actions, text: main === 'join' ? 'Join the session in your role.' : 'The session has finished.' };
   const say = (text: string, stepIndex?: number): NextStep => ({ actions, text, ...(stepIndex !== undefined ? { stepIndex } : {}) });
   switch (main) {
@@ -153,11 +165,11 @@ export function nextStepFor(state: SessionState, personId: number): NextStep {
     case 'confirm-untie':
       return say(`Return to the rail, untie ${label}, then confirm.`);
     case 'record-test':
-      return say(
-        ls?.stage === 'tested' && ls.flagged
-          ? `${capital(label)} is flagged out of balance: correct it, test again and record the result.`
-          : `Test the balance of ${label} and record the result.`,
-      );
+      return say(ls && correctionOf(ls, ls.steps.length - 1) ? `The correction is done: test the balance of ${label} again and record the result.` : `Test the balance of ${label} and record the result.`);
+    case 'plan-correction': {
+      const flagged = state.lineSets.filter((l) => l.flagged && l.stage === 'tested').map((l) => lineSetLabel(l.name));
+      return say(`${capital(nameList(flagged))} tested out of balance: work out the correction, or end the session.`);
+    }
     default: {
       if (me.role === 'rail' && ls?.stage === 'rail-clear') {
         return say(
@@ -211,6 +223,29 @@ export function nextReAlertAtMs(state: SessionState): number | null {
   return silent.length ? Math.min(...silent.map((p) => p.nextReAlertAtMs)) : null;
 }
 
+/** What a person tried to do, in the words of the log ("tried to record a test"). */
+const ACTION_WORDS: Record<ActionType, string> = {
+  join: 'join',
+  leave: 'leave',
+  begin: 'begin loading',
+  'call-move': 'call a line set in',
+  'answer-clear': 'answer "clear"',
+  'confirm-locked': 'confirm a line set in and locked',
+  'confirm-tie-off': 'confirm a tie-off',
+  'call-clear-rail': 'call to clear the rail',
+  'confirm-rail-clear': 'confirm the rail is clear',
+  'confirm-step': 'confirm a step',
+  'call-loading-complete': 'call "loading complete"',
+  'confirm-untie': 'confirm untying',
+  'record-test': 'record a test of balance',
+  'plan-correction': 'work out a correction',
+  'call-hold': 'call a hold',
+  'ack-hold': 'acknowledge the hold',
+  'release-hold': 'release the hold',
+  note: 'add a note',
+  end: 'end the session',
+};
+
 /** A log entry as the table shows it: the draft plus the person's name (LogEntry has both). */
 export type DescribableEntry = Omit<LogDraft, 'lineSetId' | 'stepIndex'> & {
   lineSetId?: string | null;
@@ -261,7 +296,14 @@ export function describeEntry(entry: DescribableEntry, state?: SessionState, uni
       const note = d.note ? ` ("${d.note}")` : '';
       const flag = d.flagCleared ? ' The flag is cleared.' : d.flagged ? ' It stays flagged until corrected.' : '';
       const tie = d.tiedOff ? ' It is tied off at the rail.' : d.untied ? ' The tie-off is undone.' : '';
-      return `${who} tested ${label}: ${result}${note}.${flag}${tie}`;
+      const computed = d.computedImbalanceKg === undefined || d.result === 'balanced' ? '' : ` (computed: ${balanceText(Number(d.computedImbalanceKg), units)})`;
+      return `${who} tested ${label}${d.afterCorrection ? ' after its correction' : ''}: ${result}${computed}${note}.${flag}${tie}`;
+    }
+    case 'correction-planned': {
+      const steps = Array.isArray(d.steps) ? (d.steps as Array<{ kind: string; bricks?: Record<string, number> }>) : [];
+      const bricks = steps.find((x) => x.kind === 'add-bricks' || x.kind === 'remove-bricks');
+      const what = bricks ? `${bricks.kind === 'add-bricks' ? 'load' : 'pull'} ${bricksText(bricks.bricks, Object.keys(bricks.bricks ?? {}).length)}` : 'no bricks';
+      return `${who} worked out the correction for ${label} from the test (measured ${balanceText(Number(d.measuredKg), units)}, computed ${balanceText(Number(d.computedKg), units)}): ${what}, then test again.`;
     }
     case 'hold-called':
       return `${who} called a hold${d.reason ? `: "${d.reason}"` : ''}.`;
@@ -286,7 +328,7 @@ export function describeEntry(entry: DescribableEntry, state?: SessionState, uni
     case 'session-opened':
       return `${who} opened the session "${d.title}" for ${nameList((d.lineSets ?? []).map((l: { name: string }) => l.name))}.`;
     case 'refused':
-      return `${who} was refused "${String(d.action?.type ?? 'an action').replace(/-/g, ' ')}": ${d.reason}`;
+      return `${who} tried to ${ACTION_WORDS[d.action?.type as ActionType] ?? 'act'} and was refused: ${d.reason}`;
     default:
       return `${who}: ${entry.kind}.`;
   }

@@ -8,7 +8,9 @@ import { ROLE_LABELS, type SessionRole } from '../roles';
 import {
   activeLineSet,
   crewShortfall,
+  correctionOf,
   isBrickStep,
+  isTestOnly,
   missingStepRoles,
   nextWorkStepIndex,
   notYetClear,
@@ -69,20 +71,30 @@ export function stepRole(step: PlanStep): SessionRole | null {
   return null;
 }
 
+type PastOr = (present: string, past: string) => string;
+function removeBricksText(ls: LineSetState, index: number, pastOr: PastOr): string {
+  const piece = pieceForBricks(ls, index);
+  return `${pastOr('pull', 'pulled')} ${bricksText(ls.steps[index].bricks, ls.brickTypes.length)}${piece ? ` for ${pieceName(ls, piece)}` : ' from the arbor'}`;
+}
+function addBricksText(ls: LineSetState, index: number, pastOr: PastOr): string {
+  const piece = pieceForBricks(ls, index);
+  return `${pastOr('load', 'loaded')} ${bricksText(ls.steps[index].bricks, ls.brickTypes.length)}${piece ? ` for ${pieceName(ls, piece)}` : ' onto the arbor'}`;
+}
+
 /** A step as an instruction without a subject: "pull 2 bricks for Drape A", "take Drape A off the batten". */
 export function stepText(ls: LineSetState, index: number, tense: 'do' | 'done' = 'do'): string {
   const step = ls.steps[index];
   const typeCount = ls.brickTypes.length;
   const pastOr = (present: string, past: string) => (tense === 'do' ? present : past);
   switch (step.kind) {
-    case 'remove-bricks': {
-      const piece = pieceForBricks(ls, index);
-      return `${pastOr('pull', 'pulled')} ${bricksText(step.bricks, typeCount)}${piece ? ` for ${pieceName(ls, piece)}` : ' from the arbor'}`;
-    }
-    case 'add-bricks': {
-      const piece = pieceForBricks(ls, index);
-      return `${pastOr('load', 'loaded')} ${bricksText(step.bricks, typeCount)}${piece ? ` for ${pieceName(ls, piece)}` : ' onto the arbor'}`;
-    }
+    case 'remove-bricks':
+    case 'add-bricks':
+      if (correctionOf(ls, index)) {
+        return step.kind === 'add-bricks'
+          ? `${pastOr('load', 'loaded')} ${bricksText(step.bricks, typeCount)} onto the arbor of ${lineSetLabel(ls.name)} to correct its balance`
+          : `${pastOr('pull', 'pulled')} ${bricksText(step.bricks, typeCount)} off the arbor of ${lineSetLabel(ls.name)} to correct its balance`;
+      }
+      return step.kind === 'add-bricks' ? addBricksText(ls, index, pastOr) : removeBricksText(ls, index, pastOr);
     case 'remove-piece':
       return `${pastOr('take', 'took')} ${pieceName(ls, step.pieceId)} off the batten`;
     case 'add-piece':
@@ -124,6 +136,7 @@ export function lineSetDuty(state: SessionState, ls: LineSetState): string {
     }
     case 'in-position':
       if (ls.needsTieOff && !ls.tiedOff) return `The rail operator must tie off ${label}`;
+      if (isTestOnly(ls)) return `The rail operator must test the balance of ${label}`;
       return 'The loaders must call to clear the rail';
     case 'rail-clear-called':
       return 'The rail operator must step back from the rail and confirm it is clear';
@@ -139,7 +152,7 @@ export function lineSetDuty(state: SessionState, ls: LineSetState): string {
       if (next) return `The rail operator must call ${lineSetLabel(next.name)} in to the loading position`;
       const flagged = state.lineSets.filter((l) => l.flagged);
       if (flagged.length) {
-        return `${capital(nameList(flagged.map((l) => lineSetLabel(l.name))))} must be corrected and tested in balance, or the lead must end the session`;
+        return `The rail operator must work out the correction for ${nameList(flagged.map((l) => lineSetLabel(l.name)))} and test again, or end the session`;
       }
       return 'Nothing more: every line set is tested';
     }

@@ -3,7 +3,7 @@
  * order, "loading complete", and untying.
  */
 import { applyStep, loadImbalanceKg } from '../../../rigging';
-import { isWorkStep, nextWorkStepIndex } from '../state';
+import { isTestOnly, isWorkStep, nextWorkStepIndex } from '../state';
 import { capital, lineSetDuty, lineSetLabel, stepDuty, stepRole, stepText } from '../words';
 import { alreadyDone, first, forbid, isRefusal, lineSetRef, markDone, needActive, pastStage, refuse, wrongStage, type RulesFor } from './common';
 
@@ -34,6 +34,7 @@ export const LOADING_RULES: RulesFor<'confirm-tie-off' | 'call-clear-rail' | 'co
       if (ls.stage !== 'in-position' || (ls.needsTieOff && !ls.tiedOff)) {
         return wrongStage(state, ls, pastStage(ls, 'in-position'), 'The rail has already been called clear.');
       }
+      if (isTestOnly(ls)) return refuse(`${capital(lineSetLabel(ls.name))} is a test only: nothing is loaded, so the rail is not cleared.`, { lineSetId: ls.id });
       ls.stage = 'rail-clear-called';
       return { ok: true, entries: [{ kind: 'rail-clear-called', lineSetId: ls.id, details: lineSetRef(ls) }] };
     },
@@ -81,7 +82,15 @@ export const LOADING_RULES: RulesFor<'confirm-tie-off' | 'call-clear-rail' | 'co
       const next = nextWorkStepIndex(ls);
       if (i !== next) return refuse(first(stepDuty(ls, next)), at);
       ls.load = applyStep(ls.load, step, ls.brickTypes);
+      const beforeKg = ls.imbalanceKg;
       ls.imbalanceKg = loadImbalanceKg(ls.load, ls.brickTypes);
+      // The measured figure moves with the step by the same amount as the computed one.
+      if (ls.measuredKg !== undefined) ls.measuredKg += ls.imbalanceKg - beforeKg;
+      // Bricks pulled from the arbor land on the loading bridge; bricks loaded come from it.
+      if (state.bridgeStock && step.bricks && (step.kind === 'remove-bricks' || step.kind === 'add-bricks')) {
+        const sign = step.kind === 'remove-bricks' ? 1 : -1;
+        for (const [type, n] of Object.entries(step.bricks)) state.bridgeStock[type] = Math.max(0, (state.bridgeStock[type] ?? 0) + sign * n);
+      }
       ls.done[i] = true;
       return {
         ok: true,
@@ -96,6 +105,7 @@ export const LOADING_RULES: RulesFor<'confirm-tie-off' | 'call-clear-rail' | 'co
               text: stepText(ls, i, 'done'),
               imbalanceKg: ls.imbalanceKg,
               plannedImbalanceKg: step.imbalanceAfterKg,
+              ...(ls.measuredKg !== undefined ? { measuredImbalanceKg: ls.measuredKg } : {}),
               bricksOnArbor: { ...ls.load.bricks },
               piecesOnBatten: ls.load.pieces.map((p) => p.id),
             },

@@ -6,7 +6,9 @@ import {
   decide,
   allowedActions,
   describeEntry,
+  nextStepFor,
   notYetClear,
+  stepText,
   waitingOn,
 } from '@shared/protocol/session';
 import type { PlanStep } from '@shared/rigging';
@@ -350,13 +352,18 @@ describe('after loading complete', () => {
     expect(s.refused(jo, { type: 'record-test', result: 'pipe-heavy' }).reason).toMatch(/estimate in kg/);
   });
 
-  it('keeps an out-of-balance set flagged, and the session open, until a balanced re-test', () => {
+  it('keeps an out-of-balance set flagged until its correction is worked out, run with its own clear-the-rail call, and tested again', () => {
     const s = toLoadingComplete(new Session([twoDrapeLineSet, trussLineSet]));
-    s.do(jo, { type: 'record-test', result: 'pipe-heavy', estimateKg: 4, note: 'Trim chain still on' });
-    expect(s.state.lineSets[0].flagged).toBe(true);
-    // The next line set may be called with the flag still on.
+    s.do(jo, { type: 'record-test', result: 'pipe-heavy', estimateKg: 18, note: 'Trim chain still on' });
+    expect(s.state.lineSets[0]).toMatchObject({ flagged: true, measuredKg: 18, imbalanceKg: 0 });
+    // A second test of a tested set is refused as already done: the new test follows a correction.
+    expect(s.refused(jo, { type: 'record-test', result: 'balanced', lineSetId: 'ls-7' })).toMatchObject({
+      code: 'already-done',
+      reason: 'Line set 7 has already been tested: pipe-heavy by 39.7 lb (18 kg). Work out its correction first; the new test follows it.',
+    });
+    // The next line set may be called with the flag still on; no correction while it is worked.
     s.do(jo, { type: 'call-move' });
-    expect(s.refused(jo, { type: 'record-test', result: 'balanced', lineSetId: 'ls-7' }).reason).toMatch(/^Line set 12 is being worked/);
+    expect(s.refused(jo, { type: 'plan-correction', lineSetId: 'ls-7' }).reason).toMatch(/^Line set 12 is being worked/);
     for (const p of [sam, alex, robin]) s.do(p, { type: 'answer-clear' });
     s.do(jo, { type: 'confirm-locked' });
     s.do(jo, { type: 'confirm-tie-off' });
@@ -368,10 +375,58 @@ describe('after loading complete', () => {
     s.do(jo, { type: 'confirm-untie' });
     s.do(jo, { type: 'record-test', result: 'balanced' });
     expect(s.state.phase).toBe('loading');
-    const d = s.do(jo, { type: 'record-test', result: 'balanced', lineSetId: 'ls-7' });
-    expect(d.entries[0].details).toMatchObject({ flagCleared: true, flagged: false });
+    expect(nextStepFor(s.state, jo.personId).actions).toEqual(['plan-correction']);
+
+    // 18 kg pipe-heavy by the rail's measure: two 9 kg bricks from the bridge (four came off the arbor there).
+    const planned = s.do(jo, { type: 'plan-correction', lineSetId: 'ls-7' });
+    expect(planned.entries[0]).toMatchObject({ kind: 'correction-planned', details: { measuredKg: 18, computedKg: 0, fromStep: 5 } });
+    const ls = s.state.lineSets[0];
+    expect(ls.steps.slice(5).map((x) => x.kind)).toEqual(['add-bricks', 'test-balance']);
+    expect(ls.steps[5].bricks).toEqual({ full: 2 });
+    expect(ls.stage).toBe('in-position');
+    expect(stepText(ls, 5)).toBe('load 2 bricks onto the arbor of line set 7 to correct its balance');
+    expect(s.refused(jo, { type: 'plan-correction', lineSetId: 'ls-7' }).code).toBe('already-done');
+    expect(s.refused(jo, { type: 'record-test', result: 'balanced' }).reason).toBe('The loaders must call to clear the rail first.');
+    s.do(alex, { type: 'call-clear-rail' });
+    s.do(jo, { type: 'confirm-rail-clear' });
+    s.do(alex, { type: 'confirm-step', stepIndex: 5 });
+    // Measured beside computed: the rail's figure comes to balance, the schedule's goes 18 kg arbor-heavy.
+    expect(s.state.lineSets[0]).toMatchObject({ measuredKg: 0, imbalanceKg: -18 });
+    expect(s.state.bridgeStock).toEqual({ full: 6 });
+    s.do(alex, { type: 'call-loading-complete' });
+    const d = s.do(jo, { type: 'record-test', result: 'balanced' });
+    expect(d.entries[0].details).toMatchObject({ flagCleared: true, flagged: false, afterCorrection: true });
     expect(d.entries[1]).toMatchObject({ kind: 'finished', role: 'system' });
     expect(s.state).toMatchObject({ phase: 'finished', endedHow: 'complete' });
+    expect(nextStepFor(s.state, jo.personId)).toEqual({ actions: [], text: 'The session has finished: every line set is tested in balance.' });
+  });
+
+  it('refuses a correction Railcall cannot work out, with the figures', () => {
+    const s = toLoadingComplete(new Session());
+    s.do(jo, { type: 'record-test', result: 'pipe-heavy', estimateKg: 4 });
+    expect(s.refused(jo, { type: 'plan-correction' }).reason).toBe(
+      'Line set 7 cannot be corrected by Railcall: It is out by 8.8 lb, less than the lightest brick (19.8 lb): no brick would bring it closer to balance.',
+    );
+  });
+});
+
+describe('a test-only plan', () => {
+  const testOnly = { ...twoDrapeLineSet, steps: [{ kind: 'test-balance' as const, imbalanceAfterKg: 0 }] };
+
+  it('is tested as soon as the set is in and locked, with no rail cleared and nobody for bricks or pieces', () => {
+    const s = new Session([testOnly]);
+    s.do(jo, { type: 'join', role: 'rail' });
+    s.do(jo, { type: 'begin', shortCrewReason: 'Only testing line set 7' });
+    s.do(jo, { type: 'call-move' });
+    s.do(jo, { type: 'confirm-locked' });
+    expect(waitingOn(s.state).text).toBe('The rail operator must test the balance of line set 7.');
+    s.do(jo, { type: 'record-test', result: 'balanced' });
+    expect(s.state.phase).toBe('finished');
+  });
+
+  it('refuses clearing the rail for it', () => {
+    const s = new Session([testOnly]).toInPosition();
+    expect(s.refused(sam, { type: 'call-clear-rail' }).reason).toBe('Line set 7 is a test only: nothing is loaded, so the rail is not cleared.');
   });
 });
 
@@ -513,8 +568,20 @@ describe('a balance test beyond what the rope lock holds', () => {
     const d = s.do(jo, { type: 'record-test', result: 'pipe-heavy', estimateKg: 30, tiedOff: true });
     expect(d.entries[0].details).toMatchObject({ tiedOff: true, flagged: true });
     expect(s.refused(jo, { type: 'call-move' }).reason).toMatch(/tied off out of balance/);
-    const fixed = s.do(jo, { type: 'record-test', result: 'balanced', lineSetId: s.state.lineSets[0].id });
-    expect(fixed.entries[0].details).toMatchObject({ tiedOff: false, untied: true, flagCleared: true });
+    expect(s.refused(jo, { type: 'record-test', result: 'balanced', lineSetId: s.state.lineSets[0].id }).code).toBe('already-done');
+    // 30 kg pipe-heavy, tied off: three of the four 9 kg bricks on the bridge, then untie, then a new test.
+    s.do(jo, { type: 'plan-correction' });
+    const ls = s.state.lineSets[0];
+    expect(ls.steps.slice(5).map((x) => x.kind)).toEqual(['add-bricks', 'untie', 'test-balance']);
+    expect(ls.steps[5]).toMatchObject({ bricks: { full: 3 }, imbalanceAfterKg: 3 });
+    s.do(sam, { type: 'call-clear-rail' });
+    s.do(jo, { type: 'confirm-rail-clear' });
+    s.do(sam, { type: 'confirm-step', stepIndex: 5 });
+    s.do(sam, { type: 'call-loading-complete' });
+    expect(s.refused(jo, { type: 'record-test', result: 'balanced' }).reason).toBe('The rail operator must untie line set 7 first.');
+    s.do(jo, { type: 'confirm-untie' });
+    const fixed = s.do(jo, { type: 'record-test', result: 'balanced' });
+    expect(fixed.entries[0].details).toMatchObject({ tiedOff: false, flagCleared: true });
     s.do(jo, { type: 'call-move' });
   });
 

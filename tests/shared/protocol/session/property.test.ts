@@ -70,7 +70,7 @@ const commandArb: fc.Arbitrary<Command> = fc.record({
 
 const ALL_TYPES: AnyAction['type'][] = [
   'join', 'leave', 'begin', 'call-move', 'answer-clear', 'confirm-locked', 'confirm-tie-off', 'call-clear-rail',
-  'confirm-rail-clear', 'confirm-step', 'call-loading-complete', 'confirm-untie', 'record-test', 'call-hold',
+  'confirm-rail-clear', 'confirm-step', 'call-loading-complete', 'confirm-untie', 'record-test', 'plan-correction', 'call-hold',
   'ack-hold', 'release-hold', 'note', 'end', 're-alert',
 ];
 
@@ -96,6 +96,10 @@ function build(type: AnyAction['type'], c: Command, state: SessionState, actor: 
         tiedOff: guided ? result !== 'balanced' && c.estimateKg > (ls?.ropeLockLimitKg ?? 0) : c.role % 2 === 0,
         lineSetId: guided ? undefined : state.lineSets[c.lineSet % state.lineSets.length].id,
       };
+    case 'plan-correction': {
+      const flagged = state.lineSets.find((l) => l.flagged && l.stage === 'tested');
+      return { type, lineSetId: guided && flagged ? flagged.id : state.lineSets[c.lineSet % state.lineSets.length].id };
+    }
     case 'call-hold':
       return { type, reason: c.role % 2 ? 'Heads' : undefined };
     case 'note':
@@ -136,7 +140,7 @@ function replayedLoad(ls: SessionState['lineSets'][number]) {
   return load;
 }
 
-const stats = { runs: 0, accepted: 0, decisions: 0, stepsConfirmed: 0, tested: 0, finishedComplete: 0, holds: 0 };
+const stats = { runs: 0, accepted: 0, decisions: 0, stepsConfirmed: 0, tested: 0, finishedComplete: 0, holds: 0, corrections: 0 };
 
 describe('decide, under thousands of random actions from random people', () => {
   it('never accepts anything out of order, never leaves a set arbor-heavy, never changes its input', () => {
@@ -202,17 +206,29 @@ describe('decide, under thousands of random actions from random people', () => {
           // A tie-off is never left unattended: no other set is called while one is tied off (TRADE.md).
           if (action.type === 'call-move') expect(prev.lineSets.some((l) => l.tiedOff)).toBe(false);
           if (action.type === 'record-test') stats.tested += 1;
+          // A tested set is tested again only after its correction.
+          if (action.type === 'record-test') {
+            const target = prev.lineSets.find((l) => l.id === (action.lineSetId ?? ls?.id));
+            expect(target?.stage).not.toBe('tested');
+          }
           if (action.type === 'call-hold') stats.holds += 1;
 
           for (const l of next.lineSets) {
             // The balance kept in the state is the replayed plan's, and never arbor-heavy.
             expect(l.load).toEqual(replayedLoad(l));
             expect(l.imbalanceKg).toBeCloseTo(loadImbalanceKg(l.load, l.brickTypes), 9);
-            expect(l.imbalanceKg).toBeGreaterThanOrEqual(-ARBOR_HEAVY_TOLERANCE_KG);
+            // Never arbor-heavy: by the computed figure, or after a correction by the rail's measured one.
+            // (A test may find a set arbor-heavy: that is what the rail measured, not a step Railcall planned.)
+            if (!l.corrections?.length) expect(l.imbalanceKg).toBeGreaterThanOrEqual(-ARBOR_HEAVY_TOLERANCE_KG);
+            else if (action.type === 'confirm-step' && l.id === ls?.id) expect(l.measuredKg!).toBeGreaterThanOrEqual(-ARBOR_HEAVY_TOLERANCE_KG);
             if (l.stage === 'tested' || l.stage === 'loading-complete') expect(nextWorkStepIndex(l)).toBe(-1);
           }
           for (const e of d.entries) {
-            if (e.kind === 'step-confirmed') expect(Number(e.details.imbalanceKg)).toBeGreaterThanOrEqual(-ARBOR_HEAVY_TOLERANCE_KG);
+            if (e.kind === 'step-confirmed') {
+              const kg = e.details.measuredImbalanceKg !== undefined && (next.lineSets.find((l) => l.id === e.lineSetId)?.corrections?.length ?? 0) > 0 ? e.details.measuredImbalanceKg : e.details.imbalanceKg;
+              expect(Number(kg)).toBeGreaterThanOrEqual(-ARBOR_HEAVY_TOLERANCE_KG);
+            }
+            if (e.kind === 'correction-planned') stats.corrections += 1;
           }
           // One lead, who is a joined rail operator.
           if (next.leadPersonId !== null) {
@@ -230,8 +246,10 @@ describe('decide, under thousands of random actions from random people', () => {
     // The walk reaches deep into sessions, so the checks above are not vacuous.
     expect(stats.decisions).toBeGreaterThan(15_000);
     expect(stats.stepsConfirmed).toBeGreaterThan(200);
-    expect(stats.tested).toBeGreaterThan(40);
+    // Fewer than before corrections: a second test of a tested set is refused unless a correction came first.
+    expect(stats.tested).toBeGreaterThan(30);
     expect(stats.finishedComplete).toBeGreaterThan(0);
     expect(stats.holds).toBeGreaterThan(10);
+    expect(stats.corrections).toBeGreaterThan(0);
   });
 });

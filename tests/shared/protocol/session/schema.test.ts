@@ -7,7 +7,7 @@ describe('sessionActionSchema', () => {
   it('lists every action type a phone sends, in kebab-case', () => {
     expect(ACTION_TYPES).toEqual([
       'join', 'leave', 'begin', 'call-move', 'answer-clear', 'confirm-locked', 'confirm-tie-off', 'call-clear-rail',
-      'confirm-rail-clear', 'confirm-step', 'call-loading-complete', 'confirm-untie', 'record-test', 'call-hold',
+      'confirm-rail-clear', 'confirm-step', 'call-loading-complete', 'confirm-untie', 'record-test', 'plan-correction', 'call-hold',
       'ack-hold', 'release-hold', 'note', 'end',
     ]);
   });

@@ -129,7 +129,7 @@ describe('describeEntry', () => {
     const s = called();
     const r = s.refused(jo, { type: 'confirm-locked' });
     expect(describeEntry({ ...r.entry, personName: 'Jo Castellan' })).toBe(
-      'Jo Castellan was refused "confirm locked": Waiting for "clear" from Sam Brightwater, Alex Tamsin and Robin Ashby: nothing proceeds without their answers.',
+      'Jo Castellan tried to confirm a line set in and locked and was refused: Waiting for "clear" from Sam Brightwater, Alex Tamsin and Robin Ashby: nothing proceeds without their answers.',
     );
     const alert = s.do(SYSTEM_ACTOR, { type: 're-alert', personIds: [3] }, 20_000);
     expect(describeEntry(alert.entries[0])).toBe('Railcall re-alerted Alex Tamsin: no "clear" yet for line set 7.');
@@ -140,9 +140,9 @@ describe('describeEntry', () => {
         kind: 'test-recorded',
         lineSetId: 'ls-7',
         personName: 'Jo Castellan',
-        details: { result: 'pipe-heavy', estimateKg: 4, note: 'Trim chain on', flagged: true },
+        details: { result: 'pipe-heavy', estimateKg: 4, note: 'Trim chain on', flagged: true, computedImbalanceKg: 0 },
       }, s.state),
-    ).toBe('Jo Castellan tested line set 7: pipe-heavy by about 4 kg ("Trim chain on"). It stays flagged until corrected.');
+    ).toBe('Jo Castellan tested line set 7: pipe-heavy by about 4 kg (computed: balanced) ("Trim chain on"). It stays flagged until corrected.');
   });
 });
 
