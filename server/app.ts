@@ -10,6 +10,7 @@ import { createSessionMiddleware } from './middleware/session';
 import { apiNotFound, errorHandler } from './middleware/error-handler';
 import { mountRoutes, type RouteSpec } from './middleware/routes';
 import { HttpError } from './middleware/http-error';
+import { originGuard } from './middleware/origin';
 
 /** Client files a phone must revalidate on every load (see the static files below). */
 const ALWAYS_FRESH = new Set(['sw.js', 'manifest.webmanifest', 'index.html']);
@@ -97,7 +98,7 @@ export function createApp({ config, db, logger, redis, setupCode = null }: AppDe
       onSignedOutEverywhere: (personId) => io && endPersonSignIns(io, personId),
     }),
     ...peopleRoutes(people, {
-      onRolesChanged: (personId) => io && stopWatching(io, personId),
+      onRolesChanged: (personId) => io && stopWatching(io, personId, people),
       onDeactivated: (personId) => io && endPersonSignIns(io, personId),
     }),
     ...scheduleRoutes(schedule, editor, new ScheduleCsv(db, schedule)),
@@ -114,6 +115,9 @@ export function createApp({ config, db, logger, redis, setupCode = null }: AppDe
   ];
 
   app.disable('x-powered-by');
+  // Behind a reverse proxy (TLS there): req.secure and req.ip come from X-Forwarded-*, so the
+  // Secure cookie is set and sign-in throttles count the phone's address, not the proxy's.
+  app.set('trust proxy', config.trustProxy);
   app.use(helmet({
     contentSecurityPolicy: {
       directives: {
@@ -127,6 +131,8 @@ export function createApp({ config, db, logger, redis, setupCode = null }: AppDe
     },
     strictTransportSecurity: config.production,
   }));
+  const originPolicy = { publicOrigins: config.publicOrigins, production: config.production };
+  app.use('/api', originGuard(originPolicy));
   // An exported record to check can be large; everything else keeps the small limit.
   app.use('/api/record/verify', express.json({ limit: '20mb' }));
   app.use('/api', express.json({ limit: config.jsonLimit }));
@@ -158,8 +164,13 @@ export function createApp({ config, db, logger, redis, setupCode = null }: AppDe
   }
   app.use(errorHandler(logger, config.jsonLimit));
 
-  io = createIo(httpServer, session.middleware, passport, [sessionSocketFeature(sessions, presence, logger)], config.sessionAbsoluteMs, redis && redisAdapter(redis),
-    (personId, venueId) => people.loadUser(personId, venueId));
+  io = createIo(httpServer, session.middleware, passport, [sessionSocketFeature(sessions, presence, logger)], {
+    signInLifetimeMs: config.sessionAbsoluteMs,
+    origin: originPolicy,
+    eventsPerSecond: config.socketEventsPerSecond,
+    adapter: redis && redisAdapter(redis),
+    loadUser: (personId, venueId) => people.loadUser(personId, venueId),
+  });
   // Broadcasts from other processes may have been lost while Redis was away: phones here check what they hold.
   const onRedisBack = () => void resyncLocalPhones(io!, sessions).catch((error) => logger.warn({ err: error }, 'resync after Redis failed'));
   redis?.on('ready', onRedisBack);

@@ -17,8 +17,6 @@ const envSchema = z.object({
   RAILCALL_DATA_DIR: z.string().default('.data/files'),
   /** Seed the demo venue (with its published demo passwords) into an empty database. Off in production unless set. */
   RAILCALL_SEED_DEMO: z.enum(['0', '1']).optional(),
-  /** Where people reach Railcall: the links in invitation and reset mails start with it. */
-  RAILCALL_PUBLIC_URL: z.url().optional(),
   /** The mail server. Without a host, mail waits in the queue (status "queued") until one is set. */
   RAILCALL_SMTP_HOST: z.string().optional(),
   RAILCALL_SMTP_PORT: z.coerce.number().int().min(1).max(65535).default(587),
@@ -32,7 +30,30 @@ const envSchema = z.object({
   RAILCALL_LOG_LEVEL: z.enum(['fatal', 'error', 'warn', 'info', 'debug', 'silent']).default('info'),
   /** Redis for Socket.IO between several server processes (redis://127.0.0.1:6379). Unset: one process, no Redis. */
   RAILCALL_REDIS_URL: z.string().url().optional(),
+  /**
+   * The address(es) people open Railcall at, comma-separated (e.g. https://rail.example.org): requests
+   * from other origins are refused, and links in mails start with the first one.
+   */
+  RAILCALL_PUBLIC_URL: z.string().optional(),
+  /** Express "trust proxy": hops to trust (a number), or addresses/subnets, comma-separated. Unset: none. */
+  RAILCALL_TRUST_PROXY: z.string().optional(),
 });
+
+/** Origins (scheme://host[:port]) from a comma list of URLs; a URL that does not parse is a start-up error. */
+function parseOrigins(list: string): string[] {
+  return list.split(',').map((s) => s.trim()).filter(Boolean).map((url) => {
+    const parsed = URL.parse(url);
+    if (!parsed || !/^https?:$/.test(parsed.protocol)) throw new Error(`RAILCALL_PUBLIC_URL: "${url}" is not an http(s) address`);
+    return parsed.origin;
+  });
+}
+
+/** Express's trust proxy setting: a hop count, or a list of addresses and subnets. */
+function parseTrustProxy(value: string | undefined): number | string[] | false {
+  if (value === undefined || value.trim() === '' || value === '0' || value === 'false') return false;
+  if (/^\d+$/.test(value.trim())) return Number(value.trim());
+  return value.split(',').map((s) => s.trim()).filter(Boolean);
+}
 
 export interface DbConfig {
   host: string;
@@ -82,6 +103,15 @@ export interface Config {
   /** Failed sign-ins allowed per window, per account and per address. */
   signInThrottle: { windowMs: number; perAccount: number; perAddress: number };
   jsonLimit: string;
+  /**
+   * Origins a browser may call the API and open sockets from. A request that names another origin
+   * (the Origin header), or that a browser marks cross-site (Sec-Fetch-Site), is refused.
+   */
+  publicOrigins: string[];
+  /** Express "trust proxy": set when a reverse proxy (TLS at the proxy) forwards to this process. */
+  trustProxy: number | string[] | false;
+  /** Socket events one socket may send per second before it is answered "slow down". */
+  socketEventsPerSecond: number;
   clientDir: string | null;
   /** Files Railcall keeps (photos of hangs), under `photos/`; kept apart from the database's own folder. */
   dataDir?: string;
@@ -106,6 +136,11 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
     sessionAbsoluteMs: 16 * 60 * 60 * 1000,
     signInThrottle: { windowMs: 15 * 60 * 1000, perAccount: 5, perAddress: 30 },
     jsonLimit: '32kb',
+    publicOrigins: e.RAILCALL_PUBLIC_URL
+      ? parseOrigins(e.RAILCALL_PUBLIC_URL)
+      : [`http://localhost:${e.RAILCALL_PORT}`, `http://127.0.0.1:${e.RAILCALL_PORT}`],
+    trustProxy: parseTrustProxy(e.RAILCALL_TRUST_PROXY),
+    socketEventsPerSecond: 20,
     clientDir: e.RAILCALL_CLIENT_DIR,
     dataDir: e.RAILCALL_DATA_DIR,
     logLevel: e.RAILCALL_LOG_LEVEL,
@@ -116,7 +151,7 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
         ? { host: e.RAILCALL_SMTP_HOST, port: e.RAILCALL_SMTP_PORT, secure: e.RAILCALL_SMTP_SECURE === '1', user: e.RAILCALL_SMTP_USER, password: e.RAILCALL_SMTP_PASSWORD }
         : null,
       from: e.RAILCALL_MAIL_FROM,
-      publicUrl: (e.RAILCALL_PUBLIC_URL ?? `http://localhost:${e.RAILCALL_PORT}`).replace(/\/+$/, ''),
+      publicUrl: (e.RAILCALL_PUBLIC_URL?.split(',')[0]?.trim() || `http://localhost:${e.RAILCALL_PORT}`).replace(/\/+$/, ''),
       mailboxDir: e.NODE_ENV === 'production' ? null : (e.RAILCALL_MAILBOX_DIR ?? null),
       pollMs: 2000,
       retryBaseMs: 5000,

@@ -26,6 +26,8 @@ export interface RouteSpec {
   status?: number;
   /** Middleware that runs before the handler (e.g. throttles). */
   before?: RequestHandler[];
+  /** The input schemas, parsed in this order before the handler runs (the attack tests fuzz each one). */
+  schemas: { params?: z.ZodType; query?: z.ZodType; body?: z.ZodType };
   handle(req: Request, res: Response): Promise<void>;
 }
 
@@ -54,6 +56,7 @@ export function route<
     access: spec.access,
     status: spec.status,
     before: spec.before,
+    schemas: { params: spec.params, query: spec.query, body: spec.body },
     async handle(req, res) {
       const user = req.user as SignedInUser | undefined;
       if (!('public' in spec.access)) {

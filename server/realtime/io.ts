@@ -2,9 +2,12 @@ import type { Server as HttpServer, IncomingMessage, ServerResponse } from 'node
 import type { RequestHandler } from 'express';
 import type { PassportStatic } from 'passport';
 import { Server, type ServerOptions, type Socket } from 'socket.io';
+import { RateLimiterMemory } from 'rate-limiter-flexible';
 import { CLIENT_EVENTS, type ClientToServerEvents, type ServerToClientEvents } from '@shared/protocol/events';
+import type { ApiError } from '@shared/protocol/ack';
 import type { SignedInUser } from '../features/people/people.service';
 import type { VenueSummary } from '@shared/protocol/people';
+import { crossSiteRefusal, type OriginPolicy } from '../middleware/origin';
 
 export interface SocketData {
   user: SignedInUser;
@@ -73,13 +76,43 @@ function onlyForHandshake(middleware: RequestHandler) {
 export const sessionRoom = (sessionId: string) => `sid:${sessionId}`;
 export const personRoom = (personId: number) => `person:${personId}`;
 
+export interface IoOptions {
+  /** A socket closes when its sign-in reaches this age. */
+  signInLifetimeMs: number;
+  origin: OriginPolicy;
+  /** Events one socket may send per second; more are answered "slow down" (the socket stays open). */
+  eventsPerSecond: number;
+  /** Carries broadcasts and room queries between server processes; unset for one process. */
+  adapter?: ServerOptions['adapter'];
+  /** Reloads the person at each event (their chosen venue and roles as they are now). */
+  loadUser?: LoadUser;
+}
+
+/** The largest payload one event may carry (JSON text); a session action is a few hundred bytes. */
+export const EVENT_PAYLOAD_LIMIT = 16 * 1024;
+
+/** Answers a refused packet through its acknowledgement, when it has one (the last argument). */
+function answerRefused(args: unknown[], error: ApiError): void {
+  const ack = args.at(-1);
+  if (typeof ack === 'function') ack({ ok: false, error });
+}
+
 /**
  * Socket.IO shares the Express sign-in (the documented pattern: express-session and passport
- * on the engine's handshake). A handshake without a signed-in person is refused with 401.
+ * on the engine's handshake). Every engine request (polling or websocket) from a foreign origin is
+ * refused with 403; a handshake without a signed-in person with 401.
  */
-export function createIo(httpServer: HttpServer, session: RequestHandler, passport: PassportStatic, features: SocketFeature[], signInLifetimeMs = Infinity, adapter?: ServerOptions['adapter'], loadUser?: LoadUser): RailcallServer {
+export function createIo(httpServer: HttpServer, session: RequestHandler, passport: PassportStatic, features: SocketFeature[], options: IoOptions): RailcallServer {
+  const { signInLifetimeMs, origin, eventsPerSecond, adapter, loadUser } = options;
   // With several server processes, `adapter` carries broadcasts and room queries between them (Redis Streams).
   const io: RailcallServer = new Server(httpServer, { serveClient: false, maxHttpBufferSize: 64 * 1024, ...(adapter ? { adapter } : {}) });
+  io.engine.use(((req, res, next) => {
+    // Any socket request may lead to a change: judged as strictly as an HTTP POST.
+    const refusal = crossSiteRefusal('POST', req.headers, origin);
+    if (!refusal) return next();
+    res.writeHead(403, { 'content-type': 'application/json' });
+    res.end(JSON.stringify({ error: { code: 'forbidden', message: refusal } }));
+  }) as RequestHandler);
   io.engine.use(onlyForHandshake(session));
   io.engine.use(onlyForHandshake(passport.session() as RequestHandler));
   io.engine.use(onlyForHandshake(((req, res, next) => {
@@ -90,18 +123,35 @@ export function createIo(httpServer: HttpServer, session: RequestHandler, passpo
     }
   }) as RequestHandler));
 
+  const limiter = new RateLimiterMemory({ points: eventsPerSecond, duration: 1 });
   io.on('connection', (socket) => {
     const req = socket.request as EngineRequest;
     socket.data.user = req.user as SignedInUser;
     socket.data.sessionId = req.sessionID as string;
     void socket.join([sessionRoom(socket.data.sessionId), personRoom(socket.data.user.id)]);
-    // Deny by default: an event no feature serves is dropped before any handler sees it.
-    socket.use(([event], next) => {
-      if (!(CLIENT_EVENTS as readonly string[]).includes(event)) return next(new Error(`Unknown event: ${String(event).slice(0, 40)}`));
+    // A phone that sends too fast is told to slow down; its connection stays open for the retry.
+    socket.use(([, ...args], next) => {
+      limiter.consume(socket.id).then(() => next(), () => {
+        answerRefused(args, { code: 'too-many-requests', message: 'Slow down: this phone sent too many requests at once. Wait a moment; Railcall will take the next one.' });
+      });
+    });
+    // Payloads past the event limit are refused with words; past maxHttpBufferSize the engine closes the connection.
+    socket.use(([, ...args], next) => {
+      const payload = typeof args.at(-1) === 'function' ? args.slice(0, -1) : args;
+      if (JSON.stringify(payload).length <= EVENT_PAYLOAD_LIMIT) return next();
+      answerRefused(args, { code: 'bad-input', message: `The request is too large (the limit is ${EVENT_PAYLOAD_LIMIT / 1024} kB).` });
+    });
+    // Deny by default: an event no feature serves is refused before any handler sees it.
+    socket.use(([event, ...args], next) => {
+      if (!(CLIENT_EVENTS as readonly string[]).includes(event)) {
+        answerRefused(args, { code: 'not-found', message: `Railcall does not know the request "${String(event).slice(0, 40)}". Reload the page.` });
+        return;
+      }
       if (!loadUser) return next();
       followSignIn(socket, loadUser).then((open) => (open ? next() : next(new Error('Signed out'))), next);
     });
     socket.on('error', () => {});
+    socket.on('disconnect', () => void limiter.delete(socket.id));
     // A socket ends with its sign-in's absolute lifetime, however active it is.
     const leftMs = signInLifetimeMs - (Date.now() - (req.session?.signedInAt ?? Date.now()));
     if (Number.isFinite(leftMs)) {

@@ -13,6 +13,11 @@ export interface ServerToClientEvents extends SessionServerToClientEvents {
   'me:venue-changed': (payload: { venue: VenueSummary }) => void;
   /** Who has the session open now, after someone connects or drops. */
   'session:presence': (payload: { sessionId: number; presence: PresenceEntry[] }) => void;
+  /**
+   * This socket was taken out of a session's room (the person's roles changed). The phone watches
+   * again, which checks the new roles, and shows `reason` if that is refused.
+   */
+  'session:dropped': (payload: { sessionId: number; reason: string }) => void;
 }
 
 export type ClientToServerEvents = SessionClientToServerEvents;

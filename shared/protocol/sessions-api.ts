@@ -21,7 +21,22 @@ export const createSessionSchema = z.object({
 });
 export type CreateSessionInput = z.infer<typeof createSessionSchema>;
 
-export const eventsQuerySchema = z.object({ after: z.coerce.number().int().min(0).default(0) });
+/** The most log entries one page carries (`GET /api/sessions/:id/events`, and a `session:watch` answer). */
+export const EVENTS_PAGE_LIMIT = 500;
+
+export const eventsQuerySchema = z.object({
+  after: z.coerce.number().int().min(0).default(0),
+  limit: z.coerce.number().int().min(1).max(EVENTS_PAGE_LIMIT).default(EVENTS_PAGE_LIMIT),
+});
+
+/** One page of a session's log. When `more`, ask again with `after: nextAfter`. */
+export interface EventsPage<E> {
+  entries: E[];
+  lastSeq: number;
+  more: boolean;
+  /** The seq to ask after for the next page (the last seq on this page, or `after` when it is empty). */
+  nextAfter: number;
+}
 export const listSessionsQuerySchema = z.object({ active: z.enum(['0', '1']).optional() });
 
 export interface SessionSummary {

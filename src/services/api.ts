@@ -16,7 +16,7 @@ import type {
   VenueView,
 } from '@shared/protocol/schedule';
 import type { CsvImportResult } from '@shared/protocol/schedule-csv';
-import type { CreateSessionInput, PresenceEntry, SessionSummary } from '@shared/protocol/sessions-api';
+import type { CreateSessionInput, EventsPage, PresenceEntry, SessionSummary } from '@shared/protocol/sessions-api';
 import type { LogEntry, SessionState } from '@shared/protocol/session';
 import type { ChainCheck, HistoryAnswer, LineSetRecord, SessionReport, VerifyAnswer } from '@shared/protocol/record';
 import { ApiFailure, failureFromAnswer, http } from './http';
@@ -92,9 +92,25 @@ export interface SessionSnapshot {
 
 export const getSession = (id: number) => http.get<SessionSnapshot>(`/api/sessions/${id}`);
 
-/** Log entries after `afterSeq`, for catching up when the live connection cannot. */
-export const getSessionEvents = (id: number, afterSeq: number) =>
-  http.get<{ entries: LogEntry[]; lastSeq: number }>(`/api/sessions/${id}/events`, { query: { after: afterSeq } });
+/** One page of log entries after `afterSeq`, for catching up when the live connection cannot. */
+export const getSessionEvents = (id: number, afterSeq: number, limit?: number) =>
+  http.get<EventsPage<LogEntry>>(`/api/sessions/${id}/events`, { query: { after: afterSeq, limit } });
+
+/** Follows a paged log from `afterSeq` to its end: every entry, and the last seq the server named. */
+export async function followEventPages<E>(getPage: (after: number) => Promise<EventsPage<E>>, afterSeq: number): Promise<{ entries: E[]; lastSeq: number }> {
+  const entries: E[] = [];
+  let after = afterSeq;
+  for (;;) {
+    const page = await getPage(after);
+    entries.push(...page.entries);
+    // A page that does not move on ends the walk (nothing more to fetch, or a server that says otherwise).
+    if (!page.more || page.nextAfter <= after) return { entries, lastSeq: page.lastSeq };
+    after = page.nextAfter;
+  }
+}
+
+/** Every log entry after `afterSeq`, page after page (each page at most 500 entries). */
+export const getAllSessionEvents = (id: number, afterSeq: number) => followEventPages((after) => getSessionEvents(id, after), afterSeq);
 
 export const startPractice = (input: StartPracticeInput) => http.post<PracticeStart>('/api/practice-runs', input);
 export const keepPractice = (id: number, input: FinishPracticeInput) => http.put<PracticeDetail>(`/api/practice-runs/${id}/result`, input);

@@ -7,6 +7,7 @@ import {
   type ActionEnvelope,
   type LogEntry,
   type SessionAction,
+  type SessionActAnswer,
   type SessionAlert,
   type SessionState,
   type SessionWatchResult,
@@ -59,7 +60,8 @@ export interface PendingAction {
   inFlight: boolean;
 }
 
-export type ActResult = { ok: true; seq: number } | { ok: false; code: string; message: string };
+/** A refusal carries `seq` when the server logged it (the phone can point at its own entry). */
+export type ActResult = { ok: true; seq: number } | { ok: false; code: string; message: string; seq?: number };
 
 /** Merges log entries by sequence number: duplicates dropped, order kept. Pure, for tests too. */
 export function mergeEntries(have: readonly LogEntry[], incoming: readonly LogEntry[]): LogEntry[] {
@@ -188,7 +190,7 @@ export const useLiveSessionStore = defineStore('liveSession', () => {
     const id = sessionId.value;
     if (id === null) return;
     const from = lastSeq.value;
-    const [snapshot, events] = await Promise.all([api.getSession(id), api.getSessionEvents(id, from)]);
+    const [snapshot, events] = await Promise.all([api.getSession(id), api.getAllSessionEvents(id, from)]);
     if (sessionId.value !== id) return;
     cachedAtMs.value = null;
     summary.value = snapshot.session;
@@ -236,7 +238,7 @@ export const useLiveSessionStore = defineStore('liveSession', () => {
       if (sessionId.value !== id) return;
       summary.value = snapshot.session;
       presence.value = snapshot.presence;
-      const events = await api.getSessionEvents(id, lastSeq.value);
+      const events = await api.getAllSessionEvents(id, lastSeq.value);
       cachedAtMs.value = null;
       take(events.entries);
       takeState(snapshot.state, Math.max(snapshot.lastSeq, 0));
@@ -312,7 +314,7 @@ export const useLiveSessionStore = defineStore('liveSession', () => {
   function send(pending: PendingAction): void {
     if (!stillQueued(pending) || pending.inFlight || !live.connected) return;
     pending.inFlight = true;
-    live.timeout(ACK_TIMEOUT_MS).emit('session:act', { sessionId: pending.sessionId, envelope: pending.envelope }, (error: Error | null, res: Ack<{ seq: number; state: SessionState }>) => {
+    live.timeout(ACK_TIMEOUT_MS).emit('session:act', { sessionId: pending.sessionId, envelope: pending.envelope }, (error: Error | null, res: SessionActAnswer) => {
       pending.inFlight = false;
       // The session was closed (or another opened) while this tap was out: its answer belongs to no screen here.
       if (!stillQueued(pending)) return;
@@ -333,7 +335,7 @@ export const useLiveSessionStore = defineStore('liveSession', () => {
         return;
       }
       refused(res.error.message);
-      done?.({ ok: false, code: res.error.code, message: res.error.message });
+      done?.({ ok: false, code: res.error.code, message: res.error.message, ...(res.seq === undefined ? {} : { seq: res.seq }) });
       // A refusal often means this screen was behind: bring it up to date.
       void refresh().catch(() => undefined);
     });
@@ -388,6 +390,14 @@ export const useLiveSessionStore = defineStore('liveSession', () => {
     if (lastSeq.value >= top) takeState(payload.state, top);
     // Something was missed between the last entry held and these: fetch it.
     else void refresh().catch(() => undefined);
+  });
+  // The server took this phone out of the room (the person's roles changed): watch again, which
+  // checks the new roles; a refusal lands in loadError and is shown instead of the session.
+  live.on('session:dropped', (payload) => {
+    if (payload.sessionId !== sessionId.value) return;
+    watching.value = false;
+    Notify.create({ type: 'warning', message: payload.reason, timeout: 7000 });
+    watch();
   });
   live.on('session:presence', (payload) => {
     if (payload.sessionId === sessionId.value) presence.value = payload.presence;

@@ -37,6 +37,7 @@ vi.mock('@/services/socket', () => ({ socket: wire.socket, connectSocket: () => 
 vi.mock('@/services/api', () => ({
   getSession: () => new Promise(() => undefined),
   getSessionEvents: () => new Promise(() => undefined),
+  getAllSessionEvents: () => new Promise(() => undefined),
   getMeOrNull: () => Promise.resolve(null),
 }));
 

@@ -125,3 +125,23 @@ describe('sign-in lifetime', () => {
     expect(me.body.error.message).toMatch(/expired/);
   });
 });
+
+describe('sign-in idle expiry', () => {
+  let t: TestApp;
+  // The sign-in store keeps expiry times in whole seconds: a lifetime of 1 s, checked after 2.6 s idle.
+  beforeAll(async () => { t = await startTestApp({ config: (c) => ({ ...c, sessionIdleMs: 1000 }) }); });
+  afterAll(async () => { await t.close(); });
+
+  it('keeps a sign-in that is used, and ends one left idle past its idle lifetime', async () => {
+    const res = await request(t.url).post('/api/auth/sign-in').send({ email: 'loader2@larkspur.example', password: DEMO_PASSWORD });
+    const cookie = cookieOf(res);
+    // Used every 0.4 s for 2 s (longer than the idle lifetime): each request moves the end out again.
+    for (let i = 0; i < 5; i++) {
+      await new Promise((r) => setTimeout(r, 400));
+      expect((await request(t.url).get('/api/me').set('Cookie', cookie)).status).toBe(200);
+    }
+    await new Promise((r) => setTimeout(r, 2600));
+    const me = await request(t.url).get('/api/me').set('Cookie', cookie);
+    expect(me.status).toBe(401);
+  });
+});

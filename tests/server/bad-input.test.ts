@@ -31,6 +31,16 @@ describe('bad input', () => {
     });
   }
 
+  it('answers a person with a sentence and a program with the field paths', async () => {
+    const res = await admin.post('/api/sessions/1/actions').send({ key: '6f1c1d36-1a8e-4c51-a0c4-0d9f1f3b8a11', action: { type: 'join', role: 'deck' } });
+    expect(res.status).toBe(400);
+    expect(res.body.error.fields.clientTimeMs).toEqual([expect.stringMatching(/number/)]);
+    expect(res.body.error.message).toBe('The request is not valid: check the client time, then try again.');
+    const nested = await admin.post('/api/people').send({ name: 'A', email: 'a@larkspur.example', roles: ['flyman'] });
+    expect(nested.body.error.message).toBe('The request is not valid: check the roles, then try again.');
+    expect(nested.body.error.message).not.toMatch(/Invalid|expected/);
+  });
+
   it('answers an oversized body with 400 and writes nothing', async () => {
     const before = await count();
     const res = await admin.post('/api/people').send({ name: 'x'.repeat(40 * 1024), email: 'big@larkspur.example', roles: ['deck'] });

@@ -4,13 +4,13 @@ import { io as connect, type Socket } from 'socket.io-client';
 import { DEMO_PASSWORD } from '@shared/protocol/http';
 import type { ClientToServerEvents, ServerToClientEvents } from '@shared/protocol/events';
 import type { Ack } from '@shared/protocol/ack';
-import type { LogEntry, SessionAction, SessionState } from '@shared/protocol/session';
+import type { LogEntry, SessionAction, SessionActAnswer, SessionState } from '@shared/protocol/session';
 import { afterAll, beforeAll } from 'vitest';
 import { cookieOf } from './people';
 import { startTestApp, type TestApp } from './app';
 
 type PhoneSocket = Socket<ServerToClientEvents, ClientToServerEvents>;
-export type ActAnswer = Ack<{ seq: number; state: SessionState }>;
+export type ActAnswer = SessionActAnswer;
 
 /**
  * One crew member's phone in a test: a real sign-in, a real socket.io-client connection, and the

@@ -1,8 +1,10 @@
-import { describeEntry, sessionActPayloadSchema, sessionWatchPayloadSchema, type LogEntry, type SessionState, type SessionWatchResult } from '@shared/protocol/session';
+import { describeEntry, sessionActPayloadSchema, sessionUnwatchPayloadSchema, type SessionActAnswer, sessionWatchPayloadSchema, type LogEntry, type SessionState, type SessionWatchResult } from '@shared/protocol/session';
 import type { Ack, ApiError } from '@shared/protocol/ack';
 import { HttpError, unavailableFrom } from '../../middleware/http-error';
 import { personRoom, type RailcallServer, type SocketFeature } from '../../realtime/io';
 import type { Logger } from '../../logger';
+import { parseInput } from '../../middleware/validate';
+import type { PeopleService } from '../people/people.service';
 import type { Presence } from './presence';
 import type { SessionsService } from './sessions.service';
 
@@ -39,12 +41,11 @@ export function sessionSocketFeature(sessions: SessionsService, presence: Presen
     socket.on('session:watch', async (payload, rawAck) => {
       const ack = safeAck<SessionWatchResult>(rawAck);
       try {
-        const parsed = sessionWatchPayloadSchema.safeParse(payload);
-        if (!parsed.success) throw new HttpError('bad-input', 'session:watch needs { sessionId, afterSeq? }.');
-        const { sessionId, afterSeq } = parsed.data;
+        const { sessionId, afterSeq } = parseInput(sessionWatchPayloadSchema, payload, 'request to open the session');
         socket.data.user = await sessions.stillAtVenue(user());
         const { state } = await sessions.get(user(), sessionId); // 404 for another venue's session
         await socket.join(sessionRoom(sessionId));
+        // One page at most: a phone further behind fetches the rest over HTTP (it sees lastSeq).
         const { entries, lastSeq } = await sessions.events(user(), sessionId, afterSeq ?? 0);
         await presence.seen(sessionId, user().id, user().name);
         const connected = await presence.connected(sessionId);
@@ -57,22 +58,21 @@ export function sessionSocketFeature(sessions: SessionsService, presence: Presen
     });
 
     socket.on('session:unwatch', async (payload) => {
-      const sessionId = Number((payload as { sessionId?: unknown } | undefined)?.sessionId);
-      if (!Number.isInteger(sessionId)) return;
+      const parsed = sessionUnwatchPayloadSchema.safeParse(payload);
+      if (!parsed.success) return; // no acknowledgement to answer: nothing to do
+      const { sessionId } = parsed.data;
       if (!socket.rooms.has(sessionRoom(sessionId))) return;
       await socket.leave(sessionRoom(sessionId));
       await left(sessionId).catch(() => {});
     });
 
     socket.on('session:act', async (payload, rawAck) => {
-      const ack = safeAck<{ seq: number; state: SessionState }>(rawAck);
+      const ack = (typeof rawAck === 'function' ? rawAck : () => {}) as (res: SessionActAnswer) => void;
       try {
-        const parsed = sessionActPayloadSchema.safeParse(payload);
-        if (!parsed.success) {
-          throw new HttpError('bad-input', `That action is not valid. ${parsed.error.issues.map((i) => `${i.path.join('.')}: ${i.message}`).join('; ')}`);
-        }
-        const { answer } = await sessions.act(user(), parsed.data.sessionId, parsed.data.envelope);
-        ack(answer.ok ? answer : { ok: false, error: answer.error });
+        const parsed = parseInput(sessionActPayloadSchema, payload, 'action');
+        const { answer } = await sessions.act(user(), parsed.sessionId, parsed.envelope);
+        // A refusal is logged too: its seq lets the phone point at its own entry.
+        ack(answer);
       } catch (error) {
         ack({ ok: false, error: toApiError(error, logger) });
       }
@@ -122,11 +122,20 @@ export async function resyncLocalPhones(io: RailcallServer, sessions: SessionsSe
 }
 
 /**
- * After a person's roles change, their open sockets stop receiving session broadcasts; the phone
- * watches again (and is checked again) when it reloads.
+ * After a person's roles change, their open sockets leave every session room and are told why;
+ * each phone then watches again, which checks the new roles (and shows the refusal if there is one).
  */
-export function stopWatching(io: RailcallServer, personId: number): void {
-  void io.in(personRoom(personId)).fetchSockets().then((sockets) => {
-    for (const s of sockets) for (const room of s.rooms) if (room.startsWith('loading:')) s.leave(room);
-  });
+export async function stopWatching(io: RailcallServer, personId: number, people: Pick<PeopleService, 'loadUser'>): Promise<void> {
+  const now = await people.loadUser(personId);
+  const reason = now
+    ? 'Your roles at this venue changed. Railcall opens the session again with your new roles.'
+    : 'You no longer hold a role at this venue, so this phone cannot follow the session any more.';
+  const sockets = await io.in(personRoom(personId)).fetchSockets();
+  for (const s of sockets) {
+    for (const room of s.rooms) {
+      if (!room.startsWith('loading:')) continue;
+      s.leave(room);
+      s.emit('session:dropped', { sessionId: Number(room.slice('loading:'.length)), reason });
+    }
+  }
 }

@@ -44,11 +44,14 @@ export function sessionRoutes(sessions: SessionsService, presence: Presence): Ro
       access: EVERYONE,
       params: idParam,
       body: actionEnvelopeSchema,
-      async handler({ user, params, body }) {
+      async handler({ user, params, body, res }) {
         // The same decision path as the socket's session:act.
         const { answer } = await sessions.act(user, params.id, body);
-        if (!answer.ok) throw new HttpError(answer.error.code as ErrorCode, answer.error.message);
-        return answer;
+        if (answer.ok) return answer;
+        // The refusal is in the log: its seq goes along, as in the socket's acknowledgement.
+        const refused = new HttpError(answer.error.code as ErrorCode, answer.error.message);
+        res.status(refused.status).json({ ...refused.toBody(), seq: answer.seq });
+        return undefined;
       },
     }),
     route({
@@ -57,7 +60,8 @@ export function sessionRoutes(sessions: SessionsService, presence: Presence): Ro
       access: EVERYONE,
       params: idParam,
       query: eventsQuerySchema,
-      handler: ({ user, params, query }) => sessions.events(user, params.id, query.after),
+      // Paged: at most `limit` (<= 500) entries; `more` and `nextAfter` lead to the next page.
+      handler: ({ user, params, query }) => sessions.events(user, params.id, query.after, query.limit),
     }),
     route({
       method: 'get',

@@ -4,9 +4,10 @@ import {
   actionEnvelopeSchema, canonicalJson, createSessionState, decide, nextReAlertAtMs, refusalToApiError, SessionPlanError, silentSince, SYSTEM_ACTOR,
   type ActionEnvelope, type Actor, type AnyAction, type LogEntry, type SessionState,
 } from '@shared/protocol/session';
-import { lineSetKey, planSession, sessionPlanErrors, type CreateSessionInput, type SessionSummary } from '@shared/protocol/sessions-api';
+import { EVENTS_PAGE_LIMIT, lineSetKey, planSession, type EventsPage, sessionPlanErrors, type CreateSessionInput, type SessionSummary } from '@shared/protocol/sessions-api';
 import type { ApiError } from '@shared/protocol/ack';
 import { HttpError, notFound } from '../../middleware/http-error';
+import { parseInput } from '../../middleware/validate';
 import type { PeopleService, SignedInUser } from '../people/people.service';
 import { Person } from '../people/person.entity';
 import type { ScheduleService } from '../schedule/schedule.service';
@@ -150,7 +151,7 @@ export class SessionsService {
   /** The kept record for export: every entry, and what a reader needs to check the chain end to end. */
   async record(user: SignedInUser, id: number) {
     const row = await this.row(user, id);
-    const { entries } = await this.events(user, id, 0);
+    const entries = (await this.eventRows(id, 0)).map(toLogEntry);
     const names = await this.names([row.createdBy]);
     return {
       session: this.summary(row, names.get(row.createdBy) ?? ''),
@@ -162,12 +163,24 @@ export class SessionsService {
     };
   }
 
-  /** The log after a sequence number: a phone that reconnects asks for exactly what it missed. */
-  async events(user: SignedInUser, id: number, afterSeq: number): Promise<{ entries: LogEntry[]; lastSeq: number }> {
+  /** One page of the log after a sequence number: a phone that reconnects asks for exactly what it missed. */
+  async events(user: SignedInUser, id: number, afterSeq: number, limit = EVENTS_PAGE_LIMIT): Promise<EventsPage<LogEntry>> {
     const row = await this.row(user, id);
-    const rows = await this.db.getRepository(SessionEventRow).createQueryBuilder('e')
-      .where('e.session_id = :id AND e.seq > :afterSeq', { id, afterSeq }).orderBy('e.seq', 'ASC').getMany();
-    return { entries: rows.map(toLogEntry), lastSeq: Math.max(row.lastSeq, rows.at(-1)?.seq ?? 0) };
+    // One more than the page holds tells whether another page follows.
+    const rows = await this.eventRows(id, afterSeq, limit + 1);
+    const page = rows.slice(0, limit).map(toLogEntry);
+    return {
+      entries: page,
+      lastSeq: Math.max(row.lastSeq, page.at(-1)?.seq ?? 0),
+      more: rows.length > limit,
+      nextAfter: page.at(-1)?.seq ?? afterSeq,
+    };
+  }
+
+  private eventRows(id: number, afterSeq: number, limit?: number): Promise<SessionEventRow[]> {
+    const qb = this.db.getRepository(SessionEventRow).createQueryBuilder('e')
+      .where('e.session_id = :id AND e.seq > :afterSeq', { id, afterSeq }).orderBy('e.seq', 'ASC');
+    return (limit ? qb.limit(limit) : qb).getMany();
   }
 
   /**
@@ -176,16 +189,12 @@ export class SessionsService {
    * decision, its log entries and the key's answer are written in the same transaction.
    */
   async act(user: SignedInUser, sessionId: number, rawEnvelope: unknown): Promise<ActOutcome> {
-    const parsed = actionEnvelopeSchema.safeParse(rawEnvelope);
-    if (!parsed.success) {
-      const detail = parsed.error.issues.map((i) => `${i.path.join('.') || 'action'}: ${i.message}`).join('; ');
-      throw new HttpError('bad-input', `That action is not valid. ${detail}`);
-    }
+    const envelope = parseInput(actionEnvelopeSchema, rawEnvelope, 'action');
     // The roles held right now, not those at sign-in: a removed role stops working at once.
     const fresh = await this.people.loadUser(user.id, user.venueId);
     if (!fresh || fresh.venueId !== user.venueId) throw notFound('That loading session');
     const actor: Actor = { personId: fresh.id, name: fresh.name, venueRoles: fresh.roles };
-    return this.decideAndRecord(fresh, sessionId, parsed.data, actor);
+    return this.decideAndRecord(fresh, sessionId, envelope, actor);
   }
 
   /** Railcall's own action (re-alerts), decided and logged like anyone's. */

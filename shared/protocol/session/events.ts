@@ -52,14 +52,23 @@ export interface SessionWatchResult {
   presence: PresenceEntry[];
 }
 
+/**
+ * The answer to `session:act`. `seq` is the last entry written for the action; a refusal is logged
+ * too, so it carries the seq of its own entry. Input that never reached the rules (bad input, no such
+ * session) was not logged and has no seq.
+ */
+export type SessionActAnswer =
+  | { ok: true; seq: number; state: SessionState }
+  | { ok: false; error: ApiError; seq?: number };
+
 export interface SessionClientToServerEvents {
   /** Subscribe to a session's room; answered with the state and the entries the phone lacks. */
   'session:watch': (payload: SessionWatchPayload, ack: (res: Ack<SessionWatchResult>) => void) => void;
   'session:unwatch': (payload: { sessionId: number }) => void;
-  /** Propose one action. `seq` is the last entry written for it (a repeated key gets the first answer). */
+  /** Propose one action (a repeated key gets the first answer). */
   'session:act': (
     payload: { sessionId: number; envelope: ActionEnvelope },
-    ack: (res: Ack<{ seq: number; state: SessionState }>) => void,
+    ack: (res: SessionActAnswer) => void,
   ) => void;
 }
 

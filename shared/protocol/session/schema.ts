@@ -121,6 +121,8 @@ export const sessionWatchPayloadSchema = z.object({
 });
 export type SessionWatchPayload = z.infer<typeof sessionWatchPayloadSchema>;
 
+export const sessionUnwatchPayloadSchema = z.object({ sessionId: z.number().int().positive() });
+
 /** Minimum crew per role before the lead may begin without giving a reason. */
 export const minCrewSchema = z.object({
   rail: z.number().int().min(1).max(10),

@@ -29,6 +29,8 @@ describe('the session refuses what is out of order', () => {
     const entry = await lastEntry();
     expect(entry.kind).toBe('refused');
     expect(entry.details.reason).toBe(res.error.message);
+    // The acknowledgement points at its own refusal in the log.
+    expect(res.seq).toBe(entry.seq);
   }
   const go = (phone: Phone, action: SessionAction) => phone.must(sessionId, action);
 
