@@ -48,6 +48,8 @@ export interface AccessCase {
    * home venue's): 404 where it names the home venue's data, as if it did not exist.
    */
   otherVenue: number;
+  /** The route knows no venue at all (first-run setup): checked signed in and out only, not from another venue. */
+  noVenue?: true;
   /** Where a role check at the person's own venue answers before the ids are looked up. */
   otherVenueOtherwise?: Partial<Record<Who, number>>;
   /** A request that is valid when allowed. */
@@ -71,6 +73,8 @@ export const ACCESS_TABLE: Record<string, AccessCase> = {
   },
   'get /setup': { allowed: WHO, okStatus: 200, otherVenue: 200, send: (a) => a.get('/api/setup') },
   'post /setup': {
+    // Wrong codes are throttled to 10 per address: the rows from another venue would only meet the throttle.
+    noVenue: true,
     allowed: WHO, okStatus: 404, otherVenue: 404, // public; on an install with a venue, first-run setup is gone (tests/server/setup.test.ts)
     send: (a) => a.post('/api/setup').send({ code: 'ABCD-EFGH-JKLM', venueName: 'Claimed', units: 'metric', name: 'Intruder', email: `x${unique()}@example.org`, password: 'a long enough password' }),
   },  'get /me': { allowed: EVERYONE, okStatus: 200, otherVenue: 200, send: (a) => a.get('/api/me') },
