@@ -396,7 +396,7 @@ export const useLiveSessionStore = defineStore('liveSession', () => {
   live.on('session:dropped', (payload) => {
     if (payload.sessionId !== sessionId.value) return;
     watching.value = false;
-    Notify.create({ type: 'warning', message: payload.reason, timeout: 7000 });
+    notices.push('warning', payload.reason);
     watch();
   });
   live.on('session:presence', (payload) => {
