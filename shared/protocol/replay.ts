@@ -19,7 +19,8 @@ export function initialStateOf(state: SessionState): SessionState {
     lineSets: state.lineSets.map((ls) => ({
       id: ls.id,
       name: ls.name,
-      steps: ls.steps,
+      // Correction steps are added during the session (plan-correction): the plan is what came before them.
+      steps: ls.corrections?.length ? ls.steps.slice(0, ls.corrections[0].fromStep) : ls.steps,
       load: ls.startLoad,
       brickTypes: ls.brickTypes,
       ropeLockLimitKg: ls.ropeLockLimitKg,
@@ -51,6 +52,7 @@ export function actionOfEntry(entry: LogEntry): AnyAction | null {
     case 'step-confirmed': return { type: 'confirm-step', stepIndex: entry.stepIndex ?? -1 };
     case 'loading-complete': return { type: 'call-loading-complete' };
     case 'untied': return { type: 'confirm-untie' };
+    case 'correction-planned': return { type: 'plan-correction', lineSetId: entry.lineSetId ?? undefined };
     case 'test-recorded':
       return {
         type: 'record-test',

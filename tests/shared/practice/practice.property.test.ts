@@ -161,7 +161,8 @@ describe('a practice session with a simulated crew, over many random runs', () =
           expect(debrief.durationMs).toBe(endMs - T0);
         },
       ),
-      { numRuns: 100 },
+      // No shrinking: each run is a whole practice, so a failure is reported at once.
+      { numRuns: 100, endOnFailure: true },
     );
     // The runs must really exercise the crew: most finish, the crew slips and gets refused, re-alerts happen.
     expect(stats.complete).toBeGreaterThan(stats.runs * 0.9);
