@@ -51,7 +51,13 @@ describe('backup and restore with mariadb-dump (scripts/backup.mjs, scripts/rest
     await crew.sm.must(sessionId, { type: 'join', role: 'stage-manager' });
     // The dump is taken while the stage manager keeps writing notes: one transaction, one moment.
     let noting = true;
-    const notes = (async () => { for (let n = 0; noting; n++) await crew.sm.must(sessionId, { type: 'note', text: `Note ${n}` }); })();
+    // Paced under the per-socket rate limit (20 events a second), as a person writing notes would be.
+    const notes = (async () => {
+      for (let n = 0; noting; n++) {
+        await crew.sm.must(sessionId, { type: 'note', text: `Note ${n}` });
+        await new Promise((r) => setTimeout(r, 100));
+      }
+    })();
     await new Promise((r) => setTimeout(r, 300));
 
     const file = join(dir, 'railcall.sql.gz');
