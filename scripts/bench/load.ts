@@ -6,15 +6,11 @@
 // BENCH_CLIENTS (2 client processes), BENCH_SECONDS (8 per level), BENCH_SERVERS ("1,2"), BENCH_GAPS
 // (pause between one session's actions, ms: "1000,500,250,125,80,50,35,25"), BENCH_PROFILE=1 (node --cpu-prof on the servers).
 import { fork, spawn, type ChildProcess } from 'node:child_process';
-import { mkdirSync, mkdtempSync, writeFileSync } from 'node:fs';
-import { tmpdir } from 'node:os';
+import { mkdirSync, writeFileSync } from 'node:fs';
 import { join, resolve } from 'node:path';
-import { randomBytes } from 'node:crypto';
-import { MariaDb, freePort, quote } from '../lib/mariadb.mjs';
+import { freePort } from '../lib/mariadb.mjs';
 import { DEMO_PASSWORD } from '../../shared/protocol/http';
-import { loadConfig } from '../../server/config';
-import { createDataSource } from '../../server/db/data-source';
-import { migrate, seedIfEmpty } from '../../server/db/setup';
+import { copyDrapeLineSets, percentile, startBenchDatabase } from './lib/bench-db';
 
 const root = resolve(import.meta.dirname, '../..');
 const SESSIONS = Number(process.env.BENCH_SESSIONS ?? 50);
@@ -25,7 +21,6 @@ const GAPS = (process.env.BENCH_GAPS ?? '1000,500,250,125,80,50,35,25').split(',
 const GOAL_MS = 50;
 const CREW = ['rail', 'loader1', 'loader2', 'deck', 'sm', 'td'];
 const sleep = (ms: number) => new Promise((r) => setTimeout(r, ms));
-const pct = (xs: number[], p: number) => (xs.length ? xs[Math.min(xs.length - 1, Math.floor((p / 100) * xs.length))] : NaN);
 
 /** Sends a message to a child and waits for its answer of the given type. */
 function ask<T = Record<string, unknown>>(child: ChildProcess, msg: object, answer: string): Promise<T> {
@@ -40,41 +35,13 @@ const started = (child: ChildProcess, type: string) => new Promise<void>((r, rej
   child.once('exit', (code) => reject(new Error(`child exited with ${code}`)));
 });
 
-const db = new MariaDb({ baseDir: mkdtempSync(join(tmpdir(), 'railcall-bench-')), port: await freePort() });
-await db.start();
+// Not 'production': its Secure cookie is not set over the benchmark's plain http on loopback.
+const bench = await startBenchDatabase({ RAILCALL_LOG_LEVEL: 'error', NODE_ENV: 'test', RAILCALL_SEED_DEMO: '0' });
 const rows: Array<Record<string, number>> = [];
 const children: ChildProcess[] = [];
 try {
-  const pw = randomBytes(12).toString('hex');
-  db.sql(`CREATE DATABASE bench; CREATE USER 'bench_owner'@'127.0.0.1' IDENTIFIED BY ${quote(pw)};
-    GRANT ALL PRIVILEGES ON bench.* TO 'bench_owner'@'127.0.0.1' WITH GRANT OPTION;
-    CREATE USER 'bench_app'@'127.0.0.1' IDENTIFIED BY ${quote(pw)};`);
-  const env = {
-    RAILCALL_DB_PORT: String(db.port), RAILCALL_DB_NAME: 'bench', RAILCALL_DB_USER: 'bench_app', RAILCALL_DB_PASSWORD: pw,
-    RAILCALL_DB_OWNER_USER: 'bench_owner', RAILCALL_DB_OWNER_PASSWORD: pw, RAILCALL_SESSION_SECRET: randomBytes(16).toString('hex'),
-    RAILCALL_CLIENT_DIR: '', // Not 'production': its Secure cookie is not set over the benchmark's plain http on loopback.
-    RAILCALL_LOG_LEVEL: 'error', NODE_ENV: 'test', RAILCALL_SEED_DEMO: '0',
-  };
-  const config = loadConfig(env);
-  const owner = createDataSource(config.dbOwner, { poolSize: 2 });
-  await owner.initialize();
-  await migrate(owner, config);
-  await seedIfEmpty(owner);
-  // One copy of the two-drape line set 7 per session: a line set belongs to one open session at a time.
-  const [ls7] = await owner.query('SELECT * FROM line_set WHERE number = 7');
-  const drapes = await owner.query('SELECT name, mass_kg FROM piece WHERE line_set_id = ?', [ls7.id]);
-  const lineSetIds: number[] = [];
-  for (let i = 0; i < SESSIONS * SERVERS.length; i++) {
-    const res = await owner.query(
-      `INSERT INTO line_set (venue_id, number, name, purchase, pipe_size, pipe_length_m, pipe_kg, lift_lines_m, lift_line_rating_kg,
-        batten_rating_kg_per_m, arbor_kg, arbor_capacity_kg, bricks) SELECT venue_id, ?, name, purchase, pipe_size, pipe_length_m, pipe_kg,
-        lift_lines_m, lift_line_rating_kg, batten_rating_kg_per_m, arbor_kg, arbor_capacity_kg, bricks FROM line_set WHERE id = ?`,
-      [1000 + i, ls7.id]);
-    for (const d of drapes) await owner.query('INSERT INTO piece (line_set_id, name, mass_kg) VALUES (?, ?, ?)', [res.insertId, d.name, d.mass_kg]);
-    lineSetIds.push(res.insertId);
-  }
-  await owner.query('UPDATE brick_type SET bridge_count = 100000');
-  await owner.destroy();
+  const { env } = bench;
+  const lineSetIds = await bench.withOwner((owner) => copyDrapeLineSets(owner, SESSIONS * SERVERS.length, 1000));
 
   for (const [round, serverCount] of SERVERS.entries()) {
     const redisPort = await freePort();
@@ -131,7 +98,7 @@ try {
       const row = {
         servers: serverCount, sessions: SESSIONS, phones: SESSIONS * CREW.length, gapMs,
         actionsPerS: Math.round(latencies.length / seconds),
-        p50Ms: +pct(latencies, 50).toFixed(1), p95Ms: +pct(latencies, 95).toFixed(1), p99Ms: +pct(latencies, 99).toFixed(1),
+        p50Ms: +percentile(latencies, 50).toFixed(1), p95Ms: +percentile(latencies, 95).toFixed(1), p99Ms: +percentile(latencies, 99).toFixed(1),
         loopP99Ms: +Math.max(...metrics.map((m) => m.loopP99Ms)).toFixed(1),
         commitP99Ms: +Math.max(...metrics.map((m) => m.commitP99Ms)).toFixed(1),
         cpuMsPerAction: +(metrics.reduce((n, m) => n + m.cpuMs, 0) / Math.max(1, actions)).toFixed(2),
@@ -152,8 +119,7 @@ try {
   }
 } finally {
   for (const c of children) if (c.exitCode === null && c.signalCode === null) c.kill('SIGKILL');
-  await db.stop();
-  db.destroy();
+  await bench.stop();
 }
 
 const table = rows.filter((r) => !r.best);
@@ -164,4 +130,4 @@ for (const r of table) {
 }
 for (const b of rows.filter((r) => r.best)) console.log(`largest load with p99 < ${GOAL_MS} ms on ${b.servers} server process(es): ${b.actionsPerS} actions/s (p99 ${b.p99Ms} ms)`);
 mkdirSync(join(root, 'bench'), { recursive: true });
-writeFileSync(join(root, 'bench', 'results.json'), JSON.stringify({ machine: 'shared: 2 cores, 8 other agents working', at: new Date().toISOString(), rows }, null, 2));
+writeFileSync(join(root, 'bench', 'results.json'), JSON.stringify({ machine: process.env.BENCH_MACHINE ?? 'this machine (set BENCH_MACHINE to describe it)', at: new Date().toISOString(), rows }, null, 2));

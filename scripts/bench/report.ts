@@ -1,45 +1,18 @@
 // The session report of a 1,000-entry session: time to build it and render it as PDF and as CSV,
 // p50 and p99 of several runs, in ms. Run: node --import tsx scripts/bench/report.ts (starts its own MariaDB).
-import { mkdtempSync } from 'node:fs';
-import { tmpdir } from 'node:os';
-import { join } from 'node:path';
-import { randomBytes } from 'node:crypto';
-import { MariaDb, freePort, quote } from '../lib/mariadb.mjs';
-import { loadConfig } from '../../server/config';
 import { createDataSource } from '../../server/db/data-source';
-import { migrate, seedIfEmpty } from '../../server/db/setup';
 import { playPastDrapeUnload } from '../../server/db/seed/past-session';
 import { RecordService } from '../../server/features/record/record.service';
 import { reportPdf } from '../../server/features/record/report-pdf';
 import { reportCsv } from '../../server/features/record/report-csv';
+import { percentile, startBenchDatabase, time } from './lib/bench-db';
 
 const ENTRIES = 1000;
 const RUNS = Number(process.env.BENCH_RUNS ?? 7);
-const percentile = (sorted: number[], p: number) => sorted[Math.min(sorted.length - 1, Math.floor((p / 100) * sorted.length))];
 
-async function time<T>(fn: () => Promise<T> | T): Promise<{ ms: number; value: T }> {
-  const start = performance.now();
-  const value = await fn();
-  return { ms: performance.now() - start, value };
-}
-
-const db = new MariaDb({ baseDir: mkdtempSync(join(tmpdir(), 'railcall-bench-')), port: await freePort() });
-await db.start();
+const bench = await startBenchDatabase();
 try {
-  const pw = randomBytes(12).toString('hex');
-  db.sql(`CREATE DATABASE bench; CREATE USER 'bench_owner'@'127.0.0.1' IDENTIFIED BY ${quote(pw)};
-    GRANT ALL PRIVILEGES ON bench.* TO 'bench_owner'@'127.0.0.1' WITH GRANT OPTION;
-    CREATE USER 'bench_app'@'127.0.0.1' IDENTIFIED BY ${quote(pw)};`);
-  const config = loadConfig({
-    RAILCALL_DB_PORT: String(db.port), RAILCALL_DB_NAME: 'bench', RAILCALL_DB_USER: 'bench_app', RAILCALL_DB_PASSWORD: pw,
-    RAILCALL_DB_OWNER_USER: 'bench_owner', RAILCALL_DB_OWNER_PASSWORD: pw, RAILCALL_SESSION_SECRET: randomBytes(16).toString('hex'),
-    RAILCALL_CLIENT_DIR: '', RAILCALL_LOG_LEVEL: 'silent',
-  });
-  const owner = createDataSource(config.dbOwner, { poolSize: 2 });
-  await owner.initialize();
-  await migrate(owner, config);
-  await seedIfEmpty(owner);
-  await owner.destroy();
+  const { config } = bench;
   const appDb = createDataSource(config.db, { poolSize: 4 });
   await appDb.initialize();
 
@@ -74,5 +47,5 @@ try {
   show(`CSV, from the database (${(csvBytes / 1024).toFixed(0)} KiB)`, csv);
   await appDb.destroy();
 } finally {
-  await db.stop();
+  await bench.stop();
 }

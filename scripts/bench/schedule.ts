@@ -1,25 +1,18 @@
 // The schedule at size: 200 line sets of 5 pieces each, imported by CSV, then read with computed balances.
 // Run: node --import tsx scripts/bench/schedule.ts (starts its own MariaDB). Not a timed test: it reports.
-import { mkdtempSync } from 'node:fs';
-import { tmpdir } from 'node:os';
-import { join } from 'node:path';
-import { randomBytes } from 'node:crypto';
 import type { AddressInfo } from 'node:net';
 import request from 'supertest';
 import { stringify } from 'csv-stringify/sync';
-import { MariaDb, freePort, quote } from '../lib/mariadb.mjs';
 import { DEMO_PASSWORD } from '../../shared/protocol/http';
 import { csvHeaders } from '../../shared/protocol/schedule-csv';
 import { createApp } from '../../server/app';
-import { loadConfig } from '../../server/config';
 import { createDataSource } from '../../server/db/data-source';
-import { migrate, seedIfEmpty } from '../../server/db/setup';
 import { createLogger } from '../../server/logger';
+import { percentile, startBenchDatabase } from './lib/bench-db';
 
 const SETS = Number(process.env.BENCH_LINE_SETS ?? 200);
 const PIECES = 5;
 const READS = Number(process.env.BENCH_READS ?? 200);
-const percentile = (sorted: number[], p: number) => sorted[Math.min(sorted.length - 1, Math.floor((p / 100) * sorted.length))];
 
 function scheduleCsv(): string {
   const empty = Object.fromEntries(csvHeaders('imperial').map((h) => [h, '']));
@@ -39,25 +32,11 @@ function scheduleCsv(): string {
   return stringify(rows, { header: true, columns: csvHeaders('imperial') });
 }
 
-const db = new MariaDb({ baseDir: mkdtempSync(join(tmpdir(), 'railcall-bench-')), port: await freePort() });
-await db.start();
+const bench = await startBenchDatabase();
 try {
-  const pw = randomBytes(12).toString('hex');
-  db.sql(`CREATE DATABASE bench; CREATE USER 'bench_owner'@'127.0.0.1' IDENTIFIED BY ${quote(pw)};
-    GRANT ALL PRIVILEGES ON bench.* TO 'bench_owner'@'127.0.0.1' WITH GRANT OPTION;
-    CREATE USER 'bench_app'@'127.0.0.1' IDENTIFIED BY ${quote(pw)};`);
-  const config = loadConfig({
-    RAILCALL_DB_PORT: String(db.port), RAILCALL_DB_NAME: 'bench', RAILCALL_DB_USER: 'bench_app', RAILCALL_DB_PASSWORD: pw,
-    RAILCALL_DB_OWNER_USER: 'bench_owner', RAILCALL_DB_OWNER_PASSWORD: pw, RAILCALL_SESSION_SECRET: randomBytes(16).toString('hex'),
-    RAILCALL_CLIENT_DIR: '', RAILCALL_LOG_LEVEL: 'silent',
-  });
-  const owner = createDataSource(config.dbOwner, { poolSize: 2 });
-  await owner.initialize();
-  await migrate(owner, config);
-  await seedIfEmpty(owner);
-  // Only the bench's 200 sets: the demo's own are removed so the figures are for exactly that schedule.
-  await owner.query('DELETE FROM line_set');
-  await owner.destroy();
+  const { config } = bench;
+  // Only the bench's line sets: the demo's own are removed so the figures are for exactly that schedule.
+  await bench.withOwner((owner) => owner.query('DELETE FROM line_set'));
 
   const appDb = createDataSource(config.db, { poolSize: 10 });
   await appDb.initialize();
@@ -90,5 +69,5 @@ try {
   await railcall.close();
   await appDb.destroy();
 } finally {
-  await db.stop();
+  await bench.stop();
 }

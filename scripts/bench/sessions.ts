@@ -1,60 +1,26 @@
 // Broadcast latency of live sessions: p50/p99 time from an action sent by one phone to its entry
 // received by every phone in the room, for 20 concurrent sessions of 6 phones each.
 // Run: npm run bench (or node --import tsx scripts/bench/sessions.ts). Starts its own MariaDB.
-import { mkdtempSync } from 'node:fs';
-import { tmpdir } from 'node:os';
-import { join } from 'node:path';
-import { randomBytes, randomUUID } from 'node:crypto';
+import { randomUUID } from 'node:crypto';
 import type { AddressInfo } from 'node:net';
 import request from 'supertest';
 import { io as connect, type Socket } from 'socket.io-client';
-import { MariaDb, freePort, quote } from '../lib/mariadb.mjs';
 import { DEMO_PASSWORD } from '../../shared/protocol/http';
 import type { SessionAction } from '../../shared/protocol/session';
 import { createApp } from '../../server/app';
-import { loadConfig } from '../../server/config';
 import { createDataSource } from '../../server/db/data-source';
-import { migrate, seedIfEmpty } from '../../server/db/setup';
 import { createLogger } from '../../server/logger';
+import { copyDrapeLineSets, percentile, startBenchDatabase } from './lib/bench-db';
 
 const SESSIONS = Number(process.env.BENCH_SESSIONS ?? 20);
 const CREW = ['rail', 'loader1', 'loader2', 'deck', 'sm', 'td'];
 /** Pause between one session's actions. 0 = as fast as the server answers (saturation). */
 const GAP_MS = Number(process.env.BENCH_GAP_MS ?? 0);
 
-const percentile = (sorted: number[], p: number) => sorted[Math.min(sorted.length - 1, Math.floor((p / 100) * sorted.length))];
-
-const db = new MariaDb({ baseDir: mkdtempSync(join(tmpdir(), 'railcall-bench-')), port: await freePort() });
-await db.start();
+const bench = await startBenchDatabase();
 try {
-  const pw = randomBytes(12).toString('hex');
-  db.sql(`CREATE DATABASE bench; CREATE USER 'bench_owner'@'127.0.0.1' IDENTIFIED BY ${quote(pw)};
-    GRANT ALL PRIVILEGES ON bench.* TO 'bench_owner'@'127.0.0.1' WITH GRANT OPTION;
-    CREATE USER 'bench_app'@'127.0.0.1' IDENTIFIED BY ${quote(pw)};`);
-  const config = loadConfig({
-    RAILCALL_DB_PORT: String(db.port), RAILCALL_DB_NAME: 'bench', RAILCALL_DB_USER: 'bench_app', RAILCALL_DB_PASSWORD: pw,
-    RAILCALL_DB_OWNER_USER: 'bench_owner', RAILCALL_DB_OWNER_PASSWORD: pw, RAILCALL_SESSION_SECRET: randomBytes(16).toString('hex'),
-    RAILCALL_CLIENT_DIR: '', RAILCALL_LOG_LEVEL: 'silent',
-  });
-  const owner = createDataSource(config.dbOwner, { poolSize: 2 });
-  await owner.initialize();
-  await migrate(owner, config);
-  await seedIfEmpty(owner);
-  // One copy of the two-drape line set per session: a line set belongs to one open session at a time.
-  const [ls7] = await owner.query('SELECT * FROM line_set WHERE number = 7');
-  const drapes = await owner.query('SELECT name, mass_kg FROM piece WHERE line_set_id = ?', [ls7.id]);
-  const lineSetIds: number[] = [];
-  for (let i = 0; i < SESSIONS; i++) {
-    const res = await owner.query(
-      `INSERT INTO line_set (venue_id, number, name, purchase, pipe_size, pipe_length_m, pipe_kg, lift_lines_m, lift_line_rating_kg,
-        batten_rating_kg_per_m, arbor_kg, arbor_capacity_kg, bricks) SELECT venue_id, ?, name, purchase, pipe_size, pipe_length_m, pipe_kg,
-        lift_lines_m, lift_line_rating_kg, batten_rating_kg_per_m, arbor_kg, arbor_capacity_kg, bricks FROM line_set WHERE id = ?`,
-      [100 + i, ls7.id]);
-    for (const d of drapes) await owner.query('INSERT INTO piece (line_set_id, name, mass_kg) VALUES (?, ?, ?)', [res.insertId, d.name, d.mass_kg]);
-    lineSetIds.push(res.insertId);
-  }
-  await owner.query("UPDATE brick_type SET bridge_count = 10000");
-  await owner.destroy();
+  const { config } = bench;
+  const lineSetIds = await bench.withOwner((owner) => copyDrapeLineSets(owner, SESSIONS, 100));
 
   const appDb = createDataSource(config.db, { poolSize: 20 });
   await appDb.initialize();
@@ -135,6 +101,5 @@ try {
   await railcall.close();
   await appDb.destroy();
 } finally {
-  await db.stop();
-  db.destroy();
+  await bench.stop();
 }
