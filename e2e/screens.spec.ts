@@ -105,6 +105,8 @@ function walk(lane: Lane, theme: 'dark' | 'light') {
     await plan.getByRole('button', { name: 'Remove new piece 1' }).click();
     await r.getByTestId('start-session').click();
     await expect(r).toHaveURL(/\/sessions\/\d+$/);
+    // The starter may be joined as lead at once, or offered the join: wait for whichever shows.
+    await expect(r.getByTestId('rail-panel').or(r.getByTestId('join-rail'))).toBeVisible();
     if (await r.getByTestId('join-rail').isVisible()) {
       await expectScreenSound(r, 'rail, join', rail.errors);
       await r.getByTestId('join-rail').click();
