@@ -10,7 +10,7 @@
 import { ROLES } from './roles';
 import {
   SYSTEM_ACTOR, createSessionState, decide,
-  type Actor, type AnyAction, type LogEntry, type SessionState, type TestResult,
+  type Actor, type AnyAction, type LogEntry, type ProxyClearVia, type SessionState, type TestResult,
 } from './session';
 
 /** The session as it stood before its first action: the plan of every line set, the settings. */
@@ -45,6 +45,8 @@ export function actionOfEntry(entry: LogEntry): AnyAction | null {
     case 'began': return { type: 'begin', shortCrewReason: text(d.shortCrewReason) };
     case 'move-called': return { type: 'call-move' };
     case 'clear-answered': return { type: 'answer-clear' };
+    case 'clear-recorded-for':
+      return { type: 'record-clear-for', personId: Number(d.forPersonId), via: d.via as ProxyClearVia };
     case 'locked': return { type: 'confirm-locked' };
     case 'tied-off': return { type: 'confirm-tie-off' };
     case 'rail-clear-called': return { type: 'call-clear-rail' };

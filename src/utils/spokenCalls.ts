@@ -30,6 +30,9 @@ export function spokenWords(entry: SpeakableEntry, role: SessionRole | null): st
     case 'clear-answered':
       // The rail operator listens for every answer; everyone else hears only the calls.
       return role === 'rail' ? `${firstName(entry.personName)}, clear` : null;
+    case 'clear-recorded-for':
+      // The lead recorded it: the rail hears whose answer it stands for.
+      return role === 'rail' ? `${firstName(String(entry.details.forName ?? ''))}, clear, recorded` : null;
     case 'locked':
       return `${set} in and locked`;
     case 'tied-off':

@@ -20,6 +20,13 @@ export const MAX_STEPS = 500;
 /** Most line sets in one session. */
 export const MAX_LINE_SETS = 100;
 
+/**
+ * How the lead heard a silent person's "clear" when their phone did not answer: they called it out,
+ * said it over the radio or headset, or the lead saw them stand clear.
+ */
+export const PROXY_CLEAR_VIA = ['voice', 'radio', 'seen'] as const;
+export type ProxyClearVia = (typeof PROXY_CLEAR_VIA)[number];
+
 export const lineSetIdSchema = z.string().trim().min(1).max(64);
 
 export const TEST_RESULTS = ['balanced', 'pipe-heavy', 'arbor-heavy'] as const;
@@ -54,6 +61,13 @@ export const sessionActionSchema = z.discriminatedUnion('type', [
   }),
   z.object({ type: z.literal('call-move') }),
   z.object({ type: z.literal('answer-clear') }),
+  z.object({
+    type: z.literal('record-clear-for'),
+    /** The silent person whose "clear" the lead heard another way, after Railcall re-alerted them. */
+    personId: z.number().int().positive(),
+    /** How the lead knows they are clear. */
+    via: z.enum(PROXY_CLEAR_VIA),
+  }),
   z.object({ type: z.literal('confirm-locked') }),
   z.object({ type: z.literal('confirm-tie-off') }),
   z.object({ type: z.literal('call-clear-rail') }),

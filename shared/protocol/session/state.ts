@@ -4,7 +4,7 @@
  */
 import { applyStep, loadImbalanceKg, type BrickCounts, type BrickType, type LineSetLoad, type PlanStep, type StepKind } from '../../rigging';
 import type { Role, SessionRole } from '../roles';
-import { DEFAULT_SETTINGS, MAX_LINE_SETS, MAX_STEPS, sessionSettingsSchema, type SessionSettings, type TestResult } from './schema';
+import { DEFAULT_SETTINGS, MAX_LINE_SETS, MAX_STEPS, sessionSettingsSchema, type ProxyClearVia, type SessionSettings, type TestResult } from './schema';
 
 /** Who sends an action. `venueRoles` are the roles the person holds at the venue right now. */
 export interface Actor {
@@ -43,7 +43,11 @@ export type LineSetStage = (typeof LINE_SET_STAGES)[number];
 export interface MoveCall {
   calledAtMs: number;
   byPersonId: number;
-  answers: Array<{ personId: number; name: string; atMs: number }>;
+  /**
+   * Everyone who has answered "clear". `recordedBy` is set when the lead recorded the answer for a
+   * silent person after a re-alert (heard `via` voice, radio or seen), not the person's own phone.
+   */
+  answers: Array<{ personId: number; name: string; atMs: number; recordedBy?: { personId: number; name: string; via: ProxyClearVia } }>;
   /** Re-alerts sent to silent people: how many and when the last one went. */
   alerts: Array<{ personId: number; count: number; lastMs: number }>;
 }

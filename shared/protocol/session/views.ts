@@ -41,6 +41,12 @@ function probe(type: ActionType, state: SessionState, me: Participant): SessionA
       const flagged = state.lineSets.find((l) => l.flagged && l.stage === 'tested');
       return { type, ...(flagged ? { lineSetId: flagged.id } : {}) };
     }
+    case 'record-clear-for': {
+      // The first silent person Railcall has re-alerted: the one the lead could answer for.
+      const alerted = new Set(ls?.call?.alerts.filter((a) => a.count > 0).map((a) => a.personId));
+      const silent = notYetClear(state).find((p) => alerted.has(p.personId));
+      return { type, personId: silent?.personId ?? 1, via: 'voice' };
+    }
     case 'call-hold':
       return { type };
     case 'note':
@@ -114,7 +120,7 @@ export interface NextStep {
   stepIndex?: number;
 }
 
-const SIDE_ACTIONS = new Set<ActionType>(['call-hold', 'note', 'leave', 'end']);
+const SIDE_ACTIONS = new Set<ActionType>(['call-hold', 'note', 'leave', 'end', 'record-clear-for']);
 
 /** What this person should do now, for their role screen ("Pull 2 bricks for Drape A, then confirm."). */
 export function nextStepFor(state: SessionState, personId: number): NextStep {
@@ -195,6 +201,19 @@ export interface SilentPerson extends Named {
 }
 
 /**
+ * The silent people whose "clear" this person (the lead) may record now, having heard it another way:
+ * each asked of `decide`, so the rail screen offers exactly what the server accepts.
+ */
+export function proxyClearCandidates(state: SessionState, personId: number): Named[] {
+  const me = participantOf(state, personId);
+  if (!me) return [];
+  const actor = { personId, name: me.name, venueRoles: [me.role] };
+  return notYetClear(state)
+    .filter((p) => decide(state, { type: 'record-clear-for', personId: p.personId, via: 'voice' }, actor, 0).ok)
+    .map(named);
+}
+
+/**
  * The people who still owe a "clear" to the open move call, with how long they have been silent.
  * The server's timer re-alerts everyone `due` (system action `re-alert`), then sleeps until
  * `nextReAlertAtMs(state)`. Silence counts from the call, the person's last re-alert, the end of the
@@ -230,6 +249,7 @@ const ACTION_WORDS: Record<ActionType, string> = {
   begin: 'begin loading',
   'call-move': 'call a line set in',
   'answer-clear': 'answer "clear"',
+  'record-clear-for': 'record a "clear" for someone else',
   'confirm-locked': 'confirm a line set in and locked',
   'confirm-tie-off': 'confirm a tie-off',
   'call-clear-rail': 'call to clear the rail',
@@ -277,6 +297,10 @@ export function describeEntry(entry: DescribableEntry, state?: SessionState, uni
       return `${who} called ${label} in to the loading position.`;
     case 'clear-answered':
       return `${who} answered "clear" for ${label}.`;
+    case 'clear-recorded-for': {
+      const times = Number(d.reAlerts) === 1 ? 'once' : `${d.reAlerts} times`;
+      return `${who} recorded "clear" for ${d.forName} on ${label}: ${d.forName} ${d.viaText ?? 'answered clear another way'}, not by phone (Railcall had re-alerted ${d.forName} ${times}).`;
+    }
     case 'locked':
       return `${who} confirmed ${label} is in position and locked.`;
     case 'tied-off':

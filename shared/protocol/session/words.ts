@@ -5,6 +5,7 @@
  */
 import { formatMass, type BrickCounts, type PlanStep, type Units } from '../../rigging';
 import { ROLE_LABELS, type SessionRole } from '../roles';
+import type { ProxyClearVia } from './schema';
 import {
   activeLineSet,
   crewShortfall,
@@ -114,6 +115,13 @@ export function stepDuty(ls: LineSetState, index: number): string {
   const who = role === 'loader' ? 'The loaders' : role === 'deck' ? 'The deck crew' : 'The rail operator';
   return `${who} must ${stepText(ls, index)}`;
 }
+
+/** How the lead heard a silent person's "clear": "answered clear by voice". */
+export const PROXY_VIA_WORDS: Record<ProxyClearVia, string> = {
+  voice: 'answered clear by voice',
+  radio: 'answered clear over the radio',
+  seen: 'seen standing clear',
+};
 
 export function holdText(hold: Hold): string {
   const why = hold.reason ? ` ("${hold.reason}")` : '';

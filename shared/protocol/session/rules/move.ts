@@ -2,11 +2,11 @@
  * Moving a set to its loading position: the rail calls it, the crew answers "clear", the rail locks it;
  * Railcall re-alerts whoever stays silent.
  */
-import { activeLineSet, notYetClear } from '../state';
-import { capital, lineSetDuty, lineSetLabel, nameList, sessionDuty } from '../words';
+import { activeLineSet, mustAnswerClear, notYetClear, participantOf } from '../state';
+import { PROXY_VIA_WORDS, capital, lineSetDuty, lineSetLabel, nameList, sessionDuty } from '../words';
 import { alreadyDone, first, isRefusal, lineSetRef, needActive, pastStage, refuse, wrongStage, type RulesFor } from './common';
 
-export const MOVE_RULES: RulesFor<'call-move' | 'answer-clear' | 'confirm-locked' | 're-alert'> = {
+export const MOVE_RULES: RulesFor<'call-move' | 'answer-clear' | 'record-clear-for' | 'confirm-locked' | 're-alert'> = {
   'call-move': {
     who: 'lead',
     atRail: true,
@@ -56,6 +56,67 @@ export const MOVE_RULES: RulesFor<'call-move' | 'answer-clear' | 'confirm-locked
       return {
         ok: true,
         entries: [{ kind: 'clear-answered', lineSetId: ls.id, details: { ...lineSetRef(ls), stillWaitingOn } }],
+      };
+    },
+  },
+
+  /**
+   * A phone died or went unheard: after Railcall has re-alerted a silent person, the lead may record
+   * their "clear" as heard another way (by voice, over the radio, seen standing clear). Never silently:
+   * the log names the lead who recorded it and the person it was recorded for.
+   */
+  'record-clear-for': {
+    who: 'lead',
+    atRail: true,
+    apply({ state, action, me, nowMs }) {
+      const ls = activeLineSet(state);
+      if (!ls || ls.stage !== 'move-called' || !ls.call) {
+        return refuse('No move call is waiting for answers: there is no "clear" to record.', ls ? { lineSetId: ls.id } : {});
+      }
+      const person = participantOf(state, action.personId);
+      if (!person) return refuse('That person has not joined the session: only a joined crew member\'s "clear" can be recorded.', { lineSetId: ls.id });
+      if (!mustAnswerClear(state).some((p) => p.personId === person.personId)) {
+        return refuse(`${person.name} does not answer move calls: only the deck crew and loaders answer "clear".`, { lineSetId: ls.id });
+      }
+      const answer = ls.call.answers.find((a) => a.personId === person.personId);
+      if (answer) {
+        const how = answer.recordedBy ? ` (recorded by ${answer.recordedBy.name})` : '';
+        return alreadyDone(`${person.name} has already answered "clear" for ${lineSetLabel(ls.name)}${how}.`, { lineSetId: ls.id });
+      }
+      const alert = ls.call.alerts.find((a) => a.personId === person.personId);
+      if (!alert || alert.count < 1) {
+        return refuse(
+          `Railcall has not re-alerted ${person.name} yet: wait for their own answer. Once they have been alerted again, you may record a "clear" you heard from them.`,
+          { lineSetId: ls.id },
+        );
+      }
+      ls.call.answers.push({
+        personId: person.personId,
+        name: person.name,
+        atMs: nowMs,
+        recordedBy: { personId: me.personId, name: me.name, via: action.via },
+      });
+      const stillWaitingOn = notYetClear(state).map((p) => p.name);
+      return {
+        ok: true,
+        entries: [
+          {
+            kind: 'clear-recorded-for',
+            lineSetId: ls.id,
+            details: {
+              ...lineSetRef(ls),
+              forPersonId: person.personId,
+              forName: person.name,
+              forRole: person.role,
+              byPersonId: me.personId,
+              byName: me.name,
+              via: action.via,
+              viaText: PROXY_VIA_WORDS[action.via],
+              reAlerts: alert.count,
+              stillWaitingOn,
+            },
+          },
+        ],
       };
     },
   },

@@ -69,7 +69,7 @@ const commandArb: fc.Arbitrary<Command> = fc.record({
 });
 
 const ALL_TYPES: AnyAction['type'][] = [
-  'join', 'leave', 'begin', 'call-move', 'answer-clear', 'confirm-locked', 'confirm-tie-off', 'call-clear-rail',
+  'join', 'leave', 'begin', 'call-move', 'answer-clear', 'record-clear-for', 'confirm-locked', 'confirm-tie-off', 'call-clear-rail',
   'confirm-rail-clear', 'confirm-step', 'call-loading-complete', 'confirm-untie', 'record-test', 'plan-correction', 'call-hold',
   'ack-hold', 'release-hold', 'note', 'end', 're-alert',
 ];
@@ -99,6 +99,12 @@ function build(type: AnyAction['type'], c: Command, state: SessionState, actor: 
     case 'plan-correction': {
       const flagged = state.lineSets.find((l) => l.flagged && l.stage === 'tested');
       return { type, lineSetId: guided && flagged ? flagged.id : state.lineSets[c.lineSet % state.lineSets.length].id };
+    }
+    case 'record-clear-for': {
+      // Guided: a silent person Railcall has re-alerted; unguided: anyone at all.
+      const alerted = new Set(ls?.call?.alerts.map((a) => a.personId));
+      const silent = notYetClear(state).find((p) => alerted.has(p.personId));
+      return { type, personId: guided && silent ? silent.personId : 1 + (c.pick % 7), via: (['voice', 'radio', 'seen'] as const)[c.role % 3] };
     }
     case 'call-hold':
       return { type, reason: c.role % 2 ? 'Heads' : undefined };
@@ -140,7 +146,7 @@ function replayedLoad(ls: SessionState['lineSets'][number]) {
   return load;
 }
 
-const stats = { runs: 0, accepted: 0, decisions: 0, stepsConfirmed: 0, tested: 0, finishedComplete: 0, holds: 0, corrections: 0 };
+const stats = { runs: 0, accepted: 0, decisions: 0, stepsConfirmed: 0, tested: 0, finishedComplete: 0, holds: 0, corrections: 0, proxyClears: 0 };
 
 describe('decide, under thousands of random actions from random people', () => {
   it('never accepts anything out of order, never leaves a set arbor-heavy, never changes its input', () => {
@@ -202,6 +208,13 @@ describe('decide, under thousands of random actions from random people', () => {
             expect(role).toBe(step.kind.endsWith('bricks') ? 'loader' : 'deck');
             stats.stepsConfirmed += 1;
           }
+          // A "clear" recorded for someone else: by the lead, for a silent deck hand or loader Railcall has re-alerted.
+          if (action.type === 'record-clear-for') {
+            expect(actor.personId).toBe(prev.leadPersonId);
+            expect(notYetClear(prev).map((p) => p.personId)).toContain(action.personId);
+            expect(ls?.call?.alerts.find((a) => a.personId === action.personId)?.count ?? 0).toBeGreaterThan(0);
+            stats.proxyClears += 1;
+          }
           if (action.type === 'call-loading-complete' && ls) expect(nextWorkStepIndex(ls)).toBe(-1);
           // A tie-off is never left unattended: no other set is called while one is tied off (TRADE.md).
           if (action.type === 'call-move') expect(prev.lineSets.some((l) => l.tiedOff)).toBe(false);
@@ -251,5 +264,6 @@ describe('decide, under thousands of random actions from random people', () => {
     expect(stats.finishedComplete).toBeGreaterThan(0);
     expect(stats.holds).toBeGreaterThan(10);
     expect(stats.corrections).toBeGreaterThan(0);
+    expect(stats.proxyClears).toBeGreaterThan(0);
   });
 });

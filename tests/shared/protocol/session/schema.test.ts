@@ -6,7 +6,7 @@ const envelope = (action: unknown) => ({ key: 'a1b2c3d4-e5', clientTimeMs: 1_700
 describe('sessionActionSchema', () => {
   it('lists every action type a phone sends, in kebab-case', () => {
     expect(ACTION_TYPES).toEqual([
-      'join', 'leave', 'begin', 'call-move', 'answer-clear', 'confirm-locked', 'confirm-tie-off', 'call-clear-rail',
+      'join', 'leave', 'begin', 'call-move', 'answer-clear', 'record-clear-for', 'confirm-locked', 'confirm-tie-off', 'call-clear-rail',
       'confirm-rail-clear', 'confirm-step', 'call-loading-complete', 'confirm-untie', 'record-test', 'plan-correction', 'call-hold',
       'ack-hold', 'release-hold', 'note', 'end',
     ]);
