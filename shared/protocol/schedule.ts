@@ -2,6 +2,7 @@ import { z } from 'zod';
 import {
   bricksMassKg,
   checkLineSet,
+  liftLineShares,
   DEFAULT_MAX_SPAN_M,
   DEFAULT_SPREADER_SPACING_M,
   KG_PER_LB,
@@ -10,6 +11,7 @@ import {
   STEEL_DENSITY_KG_M3,
   type BrickCounts,
   type BrickType,
+  type LiftLineHang,
   type PlanWarning,
   type Purchase,
 } from '../rigging';
@@ -86,6 +88,8 @@ export interface LineSetComputed {
   overCapacity: boolean;
   /** Every capacity warning of shared/rigging's checkLineSet. */
   warnings: PlanWarning[];
+  /** What each lift line carries (slack lines carry nothing), or that the batten tips; null when it cannot be solved. */
+  liftLines: LiftLineHang | null;
 }
 
 /** One line set of the schedule as the client sees it. Lengths in m, masses in kg. */
@@ -171,7 +175,9 @@ export function computeLineSet(ls: ComputeInput, venue: Pick<VenueView, 'units' 
   const arborSideKg = ls.arborKg + bricksMassKg(known, brickTypes);
   const imbalanceKg = battenSideKg - arborSideKg / ls.purchase;
   const warnings: PlanWarning[] = [];
+  let liftLines: LiftLineHang | null = null;
   try {
+    liftLines = liftLineShares({ lengthM: ls.pipeLengthM, liftLines: ls.liftLinesM.map((atM) => ({ atM, ratedKg: ls.liftLineRatingKg })), pipeKgPerM: ls.pipeKgPerM, ...pieceLoads(ls.pieces, ls.pipeLengthM) });
     warnings.push(...checkLineSet({
       lengthM: ls.pipeLengthM,
       liftLines: ls.liftLinesM.map((atM) => ({ atM, ratedKg: ls.liftLineRatingKg })),
@@ -193,7 +199,7 @@ export function computeLineSet(ls: ComputeInput, venue: Pick<VenueView, 'units' 
   }
   const unknown = Object.keys(ls.bricks).filter((code) => ls.bricks[code] && !brickTypes.some((b) => b.type === code));
   if (unknown.length) warnings.push({ severity: 'error', code: 'unknown-brick', message: `Bricks of an unknown type on the arbor: ${unknown.join(', ')}.` });
-  const overCapacity = warnings.some((w) => ['arbor-over-capacity', 'batten-over-total', 'batten-over-per-length', 'lift-line-over'].includes(w.code));
+  const overCapacity = warnings.some((w) => ['arbor-over-capacity', 'batten-over-total', 'batten-over-per-length', 'lift-line-over', 'batten-tips'].includes(w.code));
   return {
     battenSideKg,
     arborSideKg,
@@ -201,6 +207,7 @@ export function computeLineSet(ls: ComputeInput, venue: Pick<VenueView, 'units' 
     outOfBalance: Math.abs(imbalanceKg) > venue.settings.ropeLockLimitKg + 1e-9,
     overCapacity,
     warnings,
+    liftLines,
   };
 }
 

@@ -1,5 +1,5 @@
 import { z } from 'zod';
-import { checkLineSet, planChange, type BrickCounts, type LineSetLoad, type PlanInput, type PlanResult, type PlanWarning } from '../rigging';
+import { checkLineSet, liftLineShares, planChange, type LiftLineHang, type BrickCounts, type LineSetLoad, type PlanInput, type PlanResult, type PlanWarning } from '../rigging';
 import type { SessionState } from './session/state';
 import { pieceLoads, type ScheduleView } from './schedule';
 
@@ -75,6 +75,8 @@ export interface PlannedLineSet {
   result: PlanResult;
   /** Batten, lift line, arbor and span checks on the load after the change. */
   checks: PlanWarning[];
+  /** What each lift line carries after the change, slack lines carrying nothing; null when not checked. */
+  liftLines: LiftLineHang | null;
   /** The plan's warnings, then the checks; any `error` means the session must not start. */
   warnings: PlanWarning[];
   hasErrors: boolean;
@@ -116,12 +118,15 @@ export function planSession(schedule: Pick<ScheduleView, 'venue' | 'lineSets' | 
       ...ls.pieces.filter((p) => !asked.remove.includes(p.id)),
       ...newPieces.map((p) => ({ massKg: p.massKg, positionM: p.positionM, spreadFromM: null, spreadToM: null })),
     ];
+    const batten = {
+      lengthM: ls.pipeLengthM,
+      liftLines: ls.liftLinesM.map((atM) => ({ atM, ratedKg: ls.liftLineRatingKg })),
+      pipeKgPerM: ls.pipeKgPerM,
+      ...pieceLoads(hung, ls.pipeLengthM),
+    };
     const checks = result.steps.length
       ? checkLineSet({
-          lengthM: ls.pipeLengthM,
-          liftLines: ls.liftLinesM.map((atM) => ({ atM, ratedKg: ls.liftLineRatingKg })),
-          pipeKgPerM: ls.pipeKgPerM,
-          ...pieceLoads(hung, ls.pipeLengthM),
+          ...batten,
           battenRatedKgPerM: ls.battenRatingKgPerM,
           purchase: ls.purchase,
           arborKg: ls.arborKg,
@@ -147,8 +152,18 @@ export function planSession(schedule: Pick<ScheduleView, 'venue' | 'lineSets' | 
       ...newPieces.map((p) => [p.key, p.name] as const),
     ]);
     const hasErrors = warnings.some((w) => w.severity === 'error');
-    return { scheduleId: ls.id, input, start, result, checks, warnings, hasErrors, name: `Line set ${ls.number} (${ls.name})`, pieceNames, newPieces };
+    const liftLines = result.steps.length ? sharesOrNull(batten) : null;
+    return { scheduleId: ls.id, input, start, result, checks, liftLines, warnings, hasErrors, name: `Line set ${ls.number} (${ls.name})`, pieceNames, newPieces };
   });
+}
+
+/** What each lift line carries, or null for a geometry the beam cannot solve (checkLineSet says why). */
+export function sharesOrNull(batten: Parameters<typeof liftLineShares>[0]): LiftLineHang | null {
+  try {
+    return liftLineShares(batten);
+  } catch {
+    return null;
+  }
 }
 
 /** Every error of a session plan, each naming its line set. Empty when the plan can run. */

@@ -3,7 +3,8 @@
  * planning aid: every message sends the person to the venue's own ratings and a qualified rigger.
  */
 import { bricksMassKg } from './apply';
-import { liftLineLoads, type PointLoad, type SpreadLoad } from './beam';
+import type { PointLoad, SpreadLoad } from './beam';
+import { slackAwareLiftLineLoads } from './slack';
 import type { BrickCounts, BrickType, PlanWarning, Purchase, Units } from './types';
 import { formatLength, formatMass, M_PER_FT, M_PER_IN } from './units';
 
@@ -52,10 +53,57 @@ export function spreaderPlatesDue(stackHeightM: number, spacingM = DEFAULT_SPREA
   return Math.floor(stackHeightM / spacingM + 1e-9);
 }
 
+/** What one lift line carries on the batten as it hangs (slack lines allowed). */
+export interface LiftLineShare {
+  /** 1 for the first line given, and so on. */
+  number: number;
+  atM: number;
+  kg: number;
+  slack: boolean;
+  ratedKg?: number;
+}
+
+export type LiftLineHang =
+  | { holds: true; lines: LiftLineShare[] }
+  | { holds: false; tipsAbout: number; centreM: number };
+
+/**
+ * What each lift line carries, lines that go slack carrying nothing (`slackAwareLiftLineLoads`), or
+ * that the batten tips. Throws a RangeError on a geometry the beam cannot solve (see `liftLineLoads`).
+ */
+export function liftLineShares(input: Pick<LineSetCheckInput, 'lengthM' | 'liftLines' | 'pipeKgPerM' | 'pointLoads' | 'spreadLoads'>): LiftLineHang {
+  const hang = slackAwareLiftLineLoads({
+    lengthM: input.lengthM,
+    liftLinesM: input.liftLines.map((l) => l.atM),
+    selfMassKgPerM: input.pipeKgPerM,
+    pointLoads: input.pointLoads ?? [],
+    spreadLoads: input.spreadLoads ?? [],
+  });
+  if (!hang.holds) return hang;
+  return {
+    holds: true,
+    lines: input.liftLines.map((line, i) => ({
+      number: i + 1,
+      atM: line.atM,
+      kg: hang.loadsKg[i],
+      slack: hang.slackLines.includes(i),
+      ...(line.ratedKg !== undefined ? { ratedKg: line.ratedKg } : {}),
+    })),
+  };
+}
+
+/** "Line 1 carries 198.2 lb, line 2 is slack, …": one sentence for the screens and the warnings. */
+export function liftLineSharesText(lines: LiftLineShare[], units: Units): string {
+  const parts = lines.map((l) => `line ${l.number} ${l.slack ? 'is slack' : `carries ${formatMass(l.kg, units)}`}`);
+  const text = parts.join(', ');
+  return text.charAt(0).toUpperCase() + text.slice(1);
+}
+
 /**
  * Every capacity problem found on the line set: batten over its rated load (per metre and total),
- * a lift line over its rating or going slack, the arbor over capacity, a brick stack missing a spreader
- * plate, a span between lift lines longer than the venue's limit. Empty when nothing is found.
+ * a lift line over its rating (with slack lines carrying nothing), a lift line going slack (a warning:
+ * the others carry its share), the batten tipping past its last line, the arbor over capacity, a brick
+ * stack missing a spreader plate, a span between lift lines longer than the venue's limit. Empty when nothing is found.
  */
 export function checkLineSet(input: LineSetCheckInput): PlanWarning[] {
   const units = input.units ?? 'metric';
@@ -92,22 +140,31 @@ export function checkLineSet(input: LineSetCheckInput): PlanWarning[] {
 
   const positions = input.liftLines.map((l) => l.atM);
   if (positions.length >= 2) {
-    const loads = liftLineLoads({ lengthM: input.lengthM, liftLinesM: positions, selfMassKgPerM: input.pipeKgPerM, pointLoads, spreadLoads });
-    input.liftLines.forEach((line, i) => {
-      const name = `Lift line ${i + 1} (at ${len(line.atM)})`;
-      if (line.ratedKg !== undefined && loads[i] > line.ratedKg) {
-        warn('error', 'lift-line-over', `${name} carries ${kg(loads[i])}, over its rated ${kg(line.ratedKg)}.`);
+    const hang = liftLineShares(input);
+    if (!hang.holds) {
+      const line = hang.tipsAbout;
+      warn('error', 'batten-tips',
+        `The weight on the batten is centred at ${len(hang.centreM)}, past lift line ${line + 1} (at ${len(positions[line])}), the last line on that side: the batten would tip. Move weight back inside the lift lines or add a line.`);
+    } else {
+      for (const share of hang.lines) {
+        if (share.ratedKg !== undefined && share.kg > share.ratedKg) {
+          warn('error', 'lift-line-over', `Lift line ${share.number} (at ${len(share.atM)}) carries ${kg(share.kg)}, over its rated ${kg(share.ratedKg)}.`);
+        }
       }
-      if (loads[i] < 0) {
-        warn('error', 'lift-line-slack', `${name} would go slack: the load past it tips the batten up by ${kg(-loads[i])}.`);
+      const slack = hang.lines.filter((l) => l.slack);
+      if (slack.length) {
+        const named = slack.map((l) => `${l.number} (at ${len(l.atM)})`);
+        const which = slack.length === 1 ? `Lift line ${named[0]} goes` : `Lift lines ${named.slice(0, -1).join(', ')} and ${named.at(-1)} go`;
+        warn('warning', 'lift-line-slack',
+          `${which} slack: the batten rises off ${slack.length === 1 ? 'it' : 'them'} and the other lines carry the load. ${liftLineSharesText(hang.lines, units)}.`);
       }
-    });
+    }
     const maxSpanM = input.maxSpanM ?? DEFAULT_MAX_SPAN_M;
     const sorted = [...positions].sort((a, b) => a - b);
     for (let i = 1; i < sorted.length; i++) {
       const spanM = sorted[i] - sorted[i - 1];
       if (spanM > maxSpanM + 1e-9) {
-        warn('warning', 'span-too-long',
+        warn('error', 'span-too-long',
           `The batten spans ${len(spanM)} between lift lines at ${len(sorted[i - 1])} and ${len(sorted[i])}, longer than the ${len(maxSpanM)} limit.`);
       }
     }

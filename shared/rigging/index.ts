@@ -9,3 +9,4 @@ export * from './beam';
 export * from './plan';
 export * from './check';
 export * from './correct';
+export * from './slack';

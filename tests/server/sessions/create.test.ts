@@ -30,6 +30,24 @@ describe('opening a session from the schedule', () => {
     expect(await count()).toBe(before);
   });
 
+  it('plans a piece that makes a lift line go slack, with a warning saying what each line carries', async () => {
+    // The cases: 300 lb at 5 ft and 150 lb at 0 ft on a 40 ft spare pipe on five lift lines.
+    const FT = 0.3048;
+    const res = await rail.post('/api/sessions').send({
+      title: 'Slack lines',
+      lineSets: [
+        { lineSetId: ids[19].id, remove: [], add: [{ name: 'Boat bow', massKg: 300 * LB, positionM: 5 * FT }] },
+        { lineSetId: ids[29].id, remove: [], add: [{ name: 'Lantern', massKg: 150 * LB, positionM: 0 }] },
+      ],
+    });
+    expect(res.status).toBe(201);
+    const [row] = await t.database.owner.query('SELECT plan FROM loading_session WHERE id = ?', [res.body.session.id]);
+    const plan = typeof row.plan === 'string' ? JSON.parse(row.plan) : row.plan;
+    const slack = plan.lineSets.map((l: { warnings: { code: string; severity: string; message: string }[] }) => l.warnings.find((w) => w.code === 'lift-line-slack'));
+    expect(slack[0]).toMatchObject({ severity: 'warning', message: expect.stringMatching(/^Lift line 3 .* goes slack.*line 3 is slack/) });
+    expect(slack[1]).toMatchObject({ severity: 'warning', message: expect.stringMatching(/^Lift line 2 .* goes slack.*line 2 is slack/) });
+  });
+
   it('refuses a piece that is not on that line set', async () => {
     const res = await rail.post('/api/sessions').send({ title: 'Wrong piece', lineSets: [{ lineSetId: ids[2].id, remove: [ids[7].pieces[0].id], add: [] }] });
     expect(res.status).toBe(400);
