@@ -33,6 +33,8 @@ export interface VenueSummary {
   id: number;
   name: string;
   units: UnitSystem;
+  /** IANA name: every date and time on screen is shown in it. */
+  timeZone: string;
 }
 
 /** What `GET /api/me` answers for a signed-in person. */

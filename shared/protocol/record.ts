@@ -6,6 +6,7 @@ import { z } from 'zod';
 import type { Units } from '../rigging';
 import type { SessionRole } from './roles';
 import type { LogEntry } from './session';
+import { isKnownTimeZone, utcOffsetName } from './time-zone';
 
 const day = z.string().regex(/^\d{4}-\d{2}-\d{2}$/, 'Give a date as YYYY-MM-DD');
 
@@ -166,6 +167,11 @@ export function formatStamp(ms: number, timeZone: string): string {
   }).format(ms);
 }
 
+/** "2 Dec 2026, 14:05:09 UTC+1": `formatStamp` with the zone's offset at that moment, so a time read alone is never ambiguous. */
+export function formatZonedStamp(ms: number, timeZone: string): string {
+  return `${formatStamp(ms, timeZone)} ${utcOffsetName(ms, timeZone)}`;
+}
+
 /** The time zone's offset name at that moment ("GMT+1", "UTC"). */
 export function zoneName(ms: number, timeZone: string): string {
   const part = new Intl.DateTimeFormat('en-GB', { timeZone, timeZoneName: 'short' }).formatToParts(ms).find((p) => p.type === 'timeZoneName');
@@ -186,11 +192,5 @@ export function dayStartMs(date: string, timeZone: string): number {
 
 /** The venue's time zone, or UTC when it has none or an unknown one. */
 export function venueTimeZone(settings: { timeZone?: unknown }): string {
-  const tz = typeof settings.timeZone === 'string' ? settings.timeZone : 'UTC';
-  try {
-    new Intl.DateTimeFormat('en-GB', { timeZone: tz });
-    return tz;
-  } catch {
-    return 'UTC';
-  }
+  return typeof settings.timeZone === 'string' && isKnownTimeZone(settings.timeZone) ? settings.timeZone : 'UTC';
 }

@@ -16,6 +16,7 @@ import {
   type Purchase,
 } from '../rigging';
 import { UNIT_SYSTEMS, type UnitSystem } from './people';
+import { timeZoneSchema } from './time-zone';
 
 /** Where every position along a batten is measured from: said on every screen and in the CSV. */
 export const POSITION_ORIGIN = 'measured from the stage-left end of the batten';
@@ -40,6 +41,8 @@ export interface VenueSettingsView {
   caution: string;
   /** The director lets rail operators edit line sets too (pieces they may always edit). */
   railEditsLineSets: boolean;
+  /** The venue's IANA time zone: reports, history and log times are shown in it. */
+  timeZone: string;
 }
 
 export const DEFAULT_SETTINGS: VenueSettingsView = {
@@ -50,6 +53,7 @@ export const DEFAULT_SETTINGS: VenueSettingsView = {
   spreaderPlateEveryM: DEFAULT_SPREADER_SPACING_M,
   caution: DEFAULT_CAUTION,
   railEditsLineSets: false,
+  timeZone: 'UTC',
 };
 
 /** Settings as stored, filled with the defaults for anything a venue saved before it existed. */
@@ -237,6 +241,7 @@ export const venueSettingsSchema = z.object({
   spreaderPlateEveryM: lengthM.refine((v) => v > 0, 'Give a spacing above zero'),
   caution: z.string().trim().min(1, 'Write the caution crew will see').max(600),
   railEditsLineSets: z.boolean(),
+  timeZone: timeZoneSchema,
 });
 
 /** `PUT /api/venue`. */

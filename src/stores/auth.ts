@@ -19,6 +19,8 @@ export const useAuthStore = defineStore('auth', () => {
   const connection = useConnectionStore();
 
   const signedIn = computed(() => me.value !== null);
+  /** The venue's IANA time zone, for every date and time on screen (undefined: the phone's own, until known). */
+  const timeZone = computed<string | undefined>(() => me.value?.venue.timeZone);
   const roles = computed<Role[]>(() => orderedRoles(me.value?.roles ?? []));
   /** Path of this person's home screen. */
   const homeRoute = computed(() => homeFor(roles.value));
@@ -108,5 +110,5 @@ export const useAuthStore = defineStore('auth', () => {
     if (!socket.active && me.value) void load().catch(() => undefined);
   });
 
-  return { me, fromCache, loaded, signedIn, roles, homeRoute, roleHomes, hasRole, load, become, signIn, acceptInvite, chooseVenue, resetPassword, signOut };
+  return { me, fromCache, loaded, signedIn, timeZone, roles, homeRoute, roleHomes, hasRole, load, become, signIn, acceptInvite, chooseVenue, resetPassword, signOut };
 });

@@ -2,6 +2,7 @@
  * Words the session screens show that depend on the venue's units ("pull 2 bricks, 20 lb each").
  * The sentences that do not (what must happen next, log lines) come from shared/protocol/session.
  */
+import { utcOffsetName } from '@shared/protocol/time-zone';
 import { formatMass, type BrickCounts, type BrickType, type PlanStep, type Units } from '@shared/rigging';
 
 /** Below this the set reads as balanced (the same threshold as the session's own words). */
@@ -53,22 +54,27 @@ export function arborCountWords(bricks: BrickCounts, brickTypes: BrickType[]): s
   return `${head}: ${entries.map(([type, n]) => `${n} ${type}`).join(', ')}`;
 }
 
-/** "14:03:27", the time of day to the second, as the log shows it. */
-export function clockTime(ms: number): string {
-  return new Date(ms).toLocaleTimeString([], { hour: '2-digit', minute: '2-digit', second: '2-digit', hour12: false });
+/** "14:03:27", the time of day to the second, as the log shows it, in the venue's zone (else the phone's). */
+export function clockTime(ms: number, timeZone?: string): string {
+  return new Date(ms).toLocaleTimeString('en-GB', { timeZone, hour: '2-digit', minute: '2-digit', second: '2-digit', hourCycle: 'h23' });
+}
+
+/** "2026-12-02" in the zone: which day a moment falls on there. */
+function dayIn(ms: number, timeZone?: string): string {
+  return new Intl.DateTimeFormat('en-CA', { timeZone, year: 'numeric', month: '2-digit', day: '2-digit' }).format(ms);
 }
 
 /**
- * When a log entry happened, as the log shows it: the time of day alone when it is today,
- * with the day ("1 Dec, 14:03:27") when not, and the year too when not this year.
+ * When a log entry happened, as the log shows it, in the venue's zone: the time of day alone when it is
+ * today there, with the day ("1 Dec, 14:03:27") when not, and the year too when not this year.
  */
-export function logTime(ms: number, nowMs: number = Date.now()): string {
-  const at = new Date(ms);
-  const now = new Date(nowMs);
-  if (at.toDateString() === now.toDateString()) return clockTime(ms);
-  const sameYear = at.getFullYear() === now.getFullYear();
-  const day = at.toLocaleDateString([], { day: 'numeric', month: 'short', ...(sameYear ? {} : { year: 'numeric' }) });
-  return `${day}, ${clockTime(ms)}`;
+export function logTime(ms: number, nowMs: number = Date.now(), timeZone?: string): string {
+  const day = dayIn(ms, timeZone);
+  const today = dayIn(nowMs, timeZone);
+  if (day === today) return clockTime(ms, timeZone);
+  const sameYear = day.slice(0, 4) === today.slice(0, 4);
+  const date = new Date(ms).toLocaleDateString('en-GB', { timeZone, day: 'numeric', month: 'short', ...(sameYear ? {} : { year: 'numeric' }) });
+  return `${date}, ${clockTime(ms, timeZone)}`;
 }
 
 /** A plan step in the venue's units, for plan lists and the big step line. */
@@ -98,11 +104,15 @@ export function stepWho(step: PlanStep): string {
   return 'Rail';
 }
 
-/** "2 Dec 2026, 14:05:09": the date and the time to the second (the record spans days). */
+/**
+ * "2 Dec 2026, 14:05:09 UTC+1": the date and the time to the second (the record spans days), in the
+ * venue's zone (else the phone's), with that zone's offset so the time is never ambiguous.
+ */
 export function dateTime(ms: number, timeZone?: string): string {
-  return new Date(ms).toLocaleString('en-GB', {
+  const stamp = new Date(ms).toLocaleString('en-GB', {
     timeZone, day: 'numeric', month: 'short', year: 'numeric', hour: '2-digit', minute: '2-digit', second: '2-digit', hourCycle: 'h23',
   });
+  return `${stamp} ${utcOffsetName(ms, timeZone)}`;
 }
 /**
  * The computed balance (from the schedule's weights) and, once the rail has tested the set, the

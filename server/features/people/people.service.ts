@@ -3,6 +3,7 @@ import { In, type DataSource, type EntityManager } from 'typeorm';
 import { ROLES, type Role } from '@shared/protocol/roles';
 import type { AddPersonInput, EditPersonInput, Me, PersonRow, PersonStatus } from '@shared/protocol/people';
 import type { MailView } from '@shared/protocol/mail';
+import { venueTimeZone } from '@shared/protocol/record';
 import { HttpError, notFound } from '../../middleware/http-error';
 import type { MailConfig } from '../../config';
 import { Venue } from '../venue/venue.entity';
@@ -81,7 +82,7 @@ export class PeopleService {
     const summary = (id: number) => {
       const v = rows.find((r) => r.id === id);
       if (!v) throw notFound('That venue');
-      return { id: v.id, name: v.name, units: v.units };
+      return { id: v.id, name: v.name, units: v.units, timeZone: venueTimeZone(v.settings) };
     };
     return {
       id: user.id,

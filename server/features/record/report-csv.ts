@@ -1,5 +1,6 @@
 import { stringify } from 'csv-stringify/sync';
-import { outcomeText, zoneName, formatStamp, type SessionReport } from '@shared/protocol/record';
+import { outcomeText, formatZonedStamp, type SessionReport } from '@shared/protocol/record';
+import { zoneLabel } from '@shared/protocol/time-zone';
 import { ROLE_LABELS } from '@shared/protocol/roles';
 import { kgToLb } from '@shared/rigging';
 
@@ -14,7 +15,7 @@ export function reportCsv(report: SessionReport): string {
   const tz = report.timeZone;
   const unit = report.units === 'imperial' ? 'lb' : 'kg';
   const mass = (kg: number | null) => (kg === null ? '' : `${(report.units === 'imperial' ? kgToLb(kg) : kg).toFixed(2)} ${unit}`);
-  const stamp = (ms: number | null) => (ms === null ? '' : formatStamp(ms, tz));
+  const stamp = (ms: number | null) => (ms === null ? '' : formatZonedStamp(ms, tz));
   const utc = (ms: number | null) => (ms === null ? '' : new Date(ms).toISOString());
   type Row = Partial<Record<(typeof REPORT_CSV_COLUMNS)[number], string | number>>;
   const rows: Row[] = [];
@@ -22,7 +23,7 @@ export function reportCsv(report: SessionReport): string {
 
   fact('title', report.title);
   fact('venue', report.venueName);
-  fact('time-zone', `${tz} (${zoneName(report.openedAtMs, tz)})`);
+  fact('time-zone', zoneLabel(report.openedAtMs, tz));
   fact('opened', `by ${report.createdByName}`, report.openedAtMs);
   fact('began', report.beganAtMs === null ? 'never' : '', report.beganAtMs);
   fact('ended', report.endedAtMs === null ? 'not yet' : '', report.endedAtMs);

@@ -3,7 +3,8 @@ import PDFDocument from 'pdfkit';
 import SVGtoPDF from 'svg-to-pdfkit';
 import type { DataSource } from 'typeorm';
 import { formatMass } from '@shared/rigging';
-import { formatStamp, outcomeText, zoneName, type SessionReport } from '@shared/protocol/record';
+import { formatZonedStamp, outcomeText, type SessionReport } from '@shared/protocol/record';
+import { zoneLabel } from '@shared/protocol/time-zone';
 import { ROLE_LABELS } from '@shared/protocol/roles';
 import { balanceText } from '@shared/protocol/session';
 import { balanceChartSvg } from './chart';
@@ -29,7 +30,7 @@ export function reportPdf(report: SessionReport): Promise<Buffer> {
   });
 
   const tz = report.timeZone;
-  const at = (ms: number | null) => (ms === null ? '—' : formatStamp(ms, tz));
+  const at = (ms: number | null) => (ms === null ? '—' : formatZonedStamp(ms, tz));
   const mass = (kg: number) => formatMass(kg, report.units);
   const width = doc.page.width - 2 * MARGIN;
   const heading = (text: string) => {
@@ -40,7 +41,7 @@ export function reportPdf(report: SessionReport): Promise<Buffer> {
   doc.font('Inter-Bold').fontSize(16).text(`Session report: ${report.title}`, { width });
   doc.font('Inter').fontSize(10).text(report.venueName);
   doc.moveDown(0.4).fontSize(9);
-  line(`Times are ${tz} (${zoneName(report.openedAtMs, tz)}), to the second.`);
+  line(`Times are ${zoneLabel(report.openedAtMs, tz)}, to the second.`);
   line(`Opened ${at(report.openedAtMs)} by ${report.createdByName}. Began ${at(report.beganAtMs)}. Ended ${at(report.endedAtMs)}.`);
   line(`Lead: ${report.leadName ?? 'nobody led'}. Outcome: ${outcomeText(report.outcome)}.`);
   if (report.shortCrewReason) line(`Began short of the minimum crew: "${report.shortCrewReason}".`);

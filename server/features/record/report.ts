@@ -1,6 +1,6 @@
 import { describeEntry, stepText, type LogEntry, type SessionState } from '@shared/protocol/session';
 import { ROLE_LABELS } from '@shared/protocol/roles';
-import { formatStamp, type ChainCheck, type ReportEntry, type SessionOutcome, type SessionReport } from '@shared/protocol/record';
+import { formatZonedStamp, type ChainCheck, type ReportEntry, type SessionOutcome, type SessionReport } from '@shared/protocol/record';
 import { loadImbalanceKg, type Units } from '@shared/rigging';
 
 /** How a session came out, from its state. */
@@ -37,7 +37,7 @@ export function buildReport(src: ReportSource): SessionReport {
   const entries: ReportEntry[] = src.entries.map((e) => ({
     seq: e.seq,
     atMs: e.serverTimeMs,
-    time: formatStamp(e.serverTimeMs, timeZone),
+    time: formatZonedStamp(e.serverTimeMs, timeZone),
     personName: e.personName,
     role: e.role === 'system' ? 'Railcall' : e.role ? ROLE_LABELS[e.role] : '',
     kind: e.kind,
@@ -86,10 +86,10 @@ export function buildReport(src: ReportSource): SessionReport {
   const holds: SessionReport['holds'] = [];
   for (const e of src.entries) {
     if (e.kind === 'hold-called') {
-      holds.push({ calledAt: formatStamp(e.serverTimeMs, timeZone), byName: e.personName, reason: (e.details.reason as string | null) ?? null, releasedAt: null, heldForS: null });
+      holds.push({ calledAt: formatZonedStamp(e.serverTimeMs, timeZone), byName: e.personName, reason: (e.details.reason as string | null) ?? null, releasedAt: null, heldForS: null });
     } else if (e.kind === 'hold-released' && holds.length) {
       const h = holds[holds.length - 1];
-      h.releasedAt = formatStamp(e.serverTimeMs, timeZone);
+      h.releasedAt = formatZonedStamp(e.serverTimeMs, timeZone);
       h.heldForS = Math.round(Number(e.details.heldForMs ?? 0) / 1000);
     }
   }

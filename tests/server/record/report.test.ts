@@ -93,7 +93,7 @@ describe('the record of a finished session', () => {
     // The logged balance after each confirmed step is the plan's: the same applyStep on both sides.
     for (const s of ls.steps) if (s.loggedAfterKg !== null) expect(s.loggedAfterKg).toBeCloseTo(s.plannedAfterKg, 6);
     expect(ls.tests.at(-1)?.result).toBe('balanced');
-    expect(report.entries.every((e) => /\d{2}:\d{2}:\d{2}$/.test(e.time))).toBe(true);
+    expect(report.entries.every((e) => /\d{2}:\d{2}:\d{2} UTC$/.test(e.time))).toBe(true);
     expect(res.body.charts[ls.id]).toMatch(/^<svg/);
     expect(res.body.charts[ls.id]).toContain('Rope lock');
   });
