@@ -76,8 +76,7 @@ test('with the network off, a reload shows the session from the phone, a tap wai
   expect(opened.status()).toBe(201);
   const sessionId: number = (await opened.json()).session.id;
   const crew = { loader1: await openPhone(browser, base, 'loader1'), loader2: await openPhone(browser, base, 'loader2'), deck: await openPhone(browser, base, 'deck') };
-  // The starter may already lead; a second join is simply refused.
-  await act(rail.page.request, sessionId, { type: 'join', role: 'rail' });
+  // The rail operator who opened it leads it already.
   await act(crew.loader1.page.request, sessionId, { type: 'join', role: 'loader' });
   await act(crew.loader2.page.request, sessionId, { type: 'join', role: 'loader' });
   await act(crew.deck.page.request, sessionId, { type: 'join', role: 'deck' });

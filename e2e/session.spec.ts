@@ -25,7 +25,8 @@ test('a complete two-drape unload, tapped on five phones', async ({ browser }) =
   // The rail operator plans line set 7: both drapes off, and starts the session.
   const rail = await openPhone(browser, base, 'rail');
   await startTwoDrapeUnload(rail, TITLE);
-  await rail.page.getByTestId('join-rail').click();
+  // Whoever starts the session is joined as its lead at once.
+  await expect(rail.page.getByTestId('rail-panel')).toBeVisible();
   await expect(rail.page.getByTestId('session-qr')).toBeVisible();
 
   const loader1 = await openPhone(browser, base, 'loader1');

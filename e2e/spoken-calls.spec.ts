@@ -32,7 +32,6 @@ test('a phone with spoken calls on says the call, the hold and loading complete 
     who.page.request.post(`/api/sessions/${sessionId}/actions`, { data: { key: `say-${Math.random().toString(36).slice(2, 12)}`, clientTimeMs: Date.now(), action } });
   const loader1 = await openPhone(browser, base, 'loader1');
   const loader2 = await openPhone(browser, base, 'loader2');
-  await act(rail, { type: 'join', role: 'rail' });
   await act(loader1, { type: 'join', role: 'loader' });
   await act(loader2, { type: 'join', role: 'loader' });
   await act(deck, { type: 'join', role: 'deck' });

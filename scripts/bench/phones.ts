@@ -48,7 +48,7 @@ class BenchSession {
       this.phones[who] = socket;
     }
     for (const [who, action] of [
-      ['rail', { type: 'join', role: 'rail' }], ['loader1', { type: 'join', role: 'loader' }], ['loader2', { type: 'join', role: 'loader' }],
+      ['loader1', { type: 'join', role: 'loader' }], ['loader2', { type: 'join', role: 'loader' }],
       ['deck', { type: 'join', role: 'deck' }], ['sm', { type: 'join', role: 'stage-manager' }], ['rail', { type: 'begin' }],
     ] as Array<[string, SessionAction]>) await this.act(who, action);
     this.latencies = [];

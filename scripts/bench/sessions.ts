@@ -72,7 +72,6 @@ try {
       await all;
       if (GAP_MS) await new Promise((r) => setTimeout(r, GAP_MS * (0.5 + Math.random())));
     };
-    await act('rail', { type: 'join', role: 'rail' });
     await act('loader1', { type: 'join', role: 'loader' });
     await act('loader2', { type: 'join', role: 'loader' });
     await act('deck', { type: 'join', role: 'deck' });

@@ -3,6 +3,14 @@ import { checkLineSet, liftLineShares, planChange, type LiftLineHang, type Brick
 import type { SessionState } from './session/state';
 import { pieceLoads, type ScheduleView } from './schedule';
 
+/**
+ * Whoever starts a loading session is joined as its lead at the rail at once, so only a person who
+ * holds the rail operator role may start one. The server refuses with this sentence; the planner
+ * says it before anyone without the role plans.
+ */
+export const NOT_RAIL_LEAD_TEXT =
+  'A rail operator must lead a loading session: whoever starts one is joined as its lead at the rail. You do not hold the rail operator role at this venue, so ask a rail operator to start it (a technical director can give the role under People).';
+
 /** `POST /api/sessions`: a plan of one or more line sets, each with pieces to take off and to hang. */
 export const createSessionSchema = z.object({
   title: z.string().trim().min(1, 'Give the session a title').max(120),

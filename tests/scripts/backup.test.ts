@@ -46,7 +46,6 @@ describe('backup and restore with mariadb-dump (scripts/backup.mjs, scripts/rest
     const crew = await demoCrew(t.url);
     const { sessionId } = await openDrapeUnload(t.url, crew.rail.cookie);
     for (const phone of crew.all) await phone.watch(sessionId);
-    await crew.rail.must(sessionId, { type: 'join', role: 'rail' });
     await crew.loader1.must(sessionId, { type: 'join', role: 'loader' });
     await crew.sm.must(sessionId, { type: 'join', role: 'stage-manager' });
     // The dump is taken while the stage manager keeps writing notes: one transaction, one moment.

@@ -206,14 +206,17 @@ const TABLE: Record<string, Case> = {
     send: (a, c) => a.put(`/api/brick-types/${c.brickTypeId}/stock`).send({ bridgeCount: ++counter, reason: 'Counted on the bridge' }),
   },
   'post /sessions': {
-    allowed: ['admin', 'rail'], okStatus: 201, otherVenue: 400, // "No such line set at this venue"
+    // Whoever starts a session leads it from the rail: a technical director without the rail role is told so (403),
+    // and so is another venue's admin (a rail operator of another venue naming these line sets: tests/server/sessions/create.test.ts).
+    allowed: ['admin', 'rail'], okStatus: 201, otherwise: { admin: 403 }, otherVenue: 403,
     send: (a, c) => a.post('/api/sessions').send({ title: 'Access check', lineSets: [{ lineSetId: c.freeLineSet(), remove: [], add: [] }] }),
   },
   'get /sessions': { allowed: EVERYONE, okStatus: 200, send: (a) => a.get('/api/sessions?active=1') },
   'get /sessions/:id': { allowed: EVERYONE, okStatus: 200, send: (a, c) => a.get(`/api/sessions/${c.sessionId}`) },
   'post /sessions/:id/actions': {
-    // Joining in one's own role; the admin holds no session role, so the session itself refuses (403).
-    allowed: EVERYONE, okStatus: 200, otherwise: { admin: 403 },
+    // Joining in one's own role; the admin holds no session role, so the session itself refuses (403);
+    // the rail operator opened the session and was joined as its lead then (409: already joined).
+    allowed: EVERYONE, okStatus: 200, otherwise: { admin: 403, rail: 409 },
     send: (a, c) => a.post(`/api/sessions/${c.sessionId}/actions`)
       .send({ key: `access-${c.who}-${++counter}`, clientTimeMs: Date.now(), action: { type: 'join', role: c.who === 'admin' ? 'rail' : c.who } }),
   },

@@ -82,8 +82,9 @@ describe('two server processes behind nginx, sharing Socket.IO through Redis', (
     expect(record.chain).toEqual({ ok: true });
     const entries = record.entries as Array<{ seq: number; hash: string }>;
     expect(entries.map((e) => e.seq)).toEqual(entries.map((_, i) => i + 1));
-    // Opened, then one entry per tap of the walk, and "finished" after the test of balance: nothing lost, nothing twice.
-    expect(entries).toHaveLength(1 + walk.length + 1);
+    // Opened, the lead joined at opening, then one entry per tap of the walk, and "finished" after the test of balance:
+    // nothing lost, nothing twice.
+    expect(entries).toHaveLength(2 + walk.length + 1);
     for (const phone of phones) {
       await phone.caughtUpTo(record.lastSeq, 5000);
       expect([...phone.entries.values()].sort((a, b) => a.seq - b.seq).map((e) => e.hash)).toEqual(entries.map((e) => e.hash));

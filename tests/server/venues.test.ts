@@ -109,7 +109,7 @@ describe('a person with roles at more than one venue', () => {
         sessionId: larkspurSessionId,
         envelope: { key: 'venue-switch-1', clientTimeMs: Date.now(), action: { type: 'join', role: 'rail' } },
       });
-      expect(acted.ok).toBe(false);
+      expect(acted).toMatchObject({ ok: false, error: { code: 'not-found' } });
       // The other sign-in was not told and still acts on Larkspur.
       expect(elsewhereTold).toBe(false);
       expect((await elsewhere.emitWithAck('session:watch', { sessionId: larkspurSessionId })).ok).toBe(true);

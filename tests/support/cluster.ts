@@ -288,7 +288,7 @@ export const CREW_EMAILS = ['rail', 'loader1', 'loader2', 'deck', 'sm'].map((w) 
 export function drapeUnloadWalk(): Array<[number, SessionAction]> {
   const [rail, loader1, loader2, deck, sm] = [0, 1, 2, 3, 4];
   return [
-    [rail, { type: 'join', role: 'rail' }], [loader1, { type: 'join', role: 'loader' }], [loader2, { type: 'join', role: 'loader' }],
+    [loader1, { type: 'join', role: 'loader' }], [loader2, { type: 'join', role: 'loader' }],
     [deck, { type: 'join', role: 'deck' }], [sm, { type: 'join', role: 'stage-manager' }], [rail, { type: 'begin' }],
     [rail, { type: 'call-move' }], [deck, { type: 'answer-clear' }], [loader1, { type: 'answer-clear' }], [loader2, { type: 'answer-clear' }],
     [rail, { type: 'confirm-locked' }], [loader1, { type: 'call-clear-rail' }], [rail, { type: 'confirm-rail-clear' }],

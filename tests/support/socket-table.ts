@@ -53,8 +53,9 @@ export const SOCKET_TABLE: Record<ClientEvent, SocketCase> = {
     send: (s, c) => noAnswer(s, 'session:unwatch', { sessionId: c.sessionId }),
   },
   'session:act': {
-    // Joining in one's own role; the admin holds no session role, so the session refuses.
-    own: { ...everyone('ok'), admin: 'forbidden' },
+    // Joining in one's own role; the admin holds no session role, so the session refuses; the rail
+    // operator opened the session and leads it already (joined at opening), so the join is already done.
+    own: { ...everyone('ok'), admin: 'forbidden', rail: 'conflict' },
     otherVenue: 'not-found',
     send: async (s, c) => outcomeOf(await s.emitWithAck('session:act', {
       sessionId: c.sessionId,

@@ -45,7 +45,7 @@ export async function playPastDrapeUnload(db: DataSource, opts: PastSessionOptio
     const { answer } = await sessions.act(who, session.id, { key: randomUUID(), clientTimeMs: clock - 300, action });
     if (!answer.ok) throw new Error(`${who.name}: ${action.type} refused: ${answer.error.message}`);
   };
-  await act(rail, { type: 'join', role: 'rail' });
+  // The rail operator who opened it leads it already.
   await act(loader1, { type: 'join', role: 'loader' });
   await act(loader2, { type: 'join', role: 'loader' });
   await act(deck, { type: 'join', role: 'deck' });

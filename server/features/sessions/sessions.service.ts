@@ -4,7 +4,7 @@ import {
   actionEnvelopeSchema, canonicalJson, createSessionState, decide, nextReAlertAtMs, refusalToApiError, SessionPlanError, silentSince, SYSTEM_ACTOR,
   type ActionEnvelope, type Actor, type AnyAction, type LogEntry, type SessionState,
 } from '@shared/protocol/session';
-import { EVENTS_PAGE_LIMIT, lineSetKey, planSession, type EventsPage, sessionPlanErrors, type CreateSessionInput, type SessionSummary } from '@shared/protocol/sessions-api';
+import { EVENTS_PAGE_LIMIT, NOT_RAIL_LEAD_TEXT, lineSetKey, planSession, type EventsPage, sessionPlanErrors, type CreateSessionInput, type SessionSummary } from '@shared/protocol/sessions-api';
 import type { ApiError } from '@shared/protocol/ack';
 import { HttpError, notFound } from '../../middleware/http-error';
 import { parseInput } from '../../middleware/validate';
@@ -51,6 +51,10 @@ export class SessionsService {
   async create(user: SignedInUser, input: CreateSessionInput): Promise<{ session: SessionSummary; state: SessionState }> {
     const nowMs = this.now();
     const { row, entries } = await this.db.transaction(async (m) => {
+      // Whoever starts a session leads it from the rail, joined in the same transaction: the roles as they are now.
+      const fresh = await this.people.loadUser(user.id, user.venueId);
+      if (!fresh || fresh.venueId !== user.venueId) throw new HttpError('forbidden', 'You no longer hold a role at this venue.');
+      if (!fresh.roles.includes('rail')) throw new HttpError('forbidden', NOT_RAIL_LEAD_TEXT);
       const venue = await this.schedule.venue(user.venueId, m);
       const ids = input.lineSets.map((l) => l.lineSetId);
       // Lock the line sets: two leads cannot both open sessions on the same set.
@@ -103,12 +107,18 @@ export class SessionsService {
         reAlertDueMs: null,
       }));
       row.lastHash = genesisHash(row);
-      const entries = await appendEntries(m, row, [{
+      const opened = await appendEntries(m, row, [{
         kind: 'session-opened',
         role: null,
         details: { title: input.title, lineSets: planned.map((p) => ({ id: lineSetKey(p.scheduleId), name: p.name, steps: p.result.steps.length })) },
       }], { personId: user.id, personName: user.name, clientTimeMs: null }, nowMs);
-      await m.getRepository(LoadingSessionRow).update({ id: row.id }, { lastSeq: row.lastSeq, lastHash: row.lastHash });
+      // The one who starts it joins as lead through the same rules as any join, logged as their own entry.
+      const joined = decide(row.state, { type: 'join', role: 'rail' }, { personId: fresh.id, name: fresh.name, venueRoles: fresh.roles }, nowMs);
+      if (!joined.ok) throw new HttpError('forbidden', joined.reason);
+      row.state = joined.state;
+      row.phase = joined.state.phase;
+      const entries = [...opened, ...await appendEntries(m, row, joined.entries, { personId: fresh.id, personName: fresh.name, clientTimeMs: null }, nowMs)];
+      await m.getRepository(LoadingSessionRow).update({ id: row.id }, { state: row.state, phase: row.phase, lastSeq: row.lastSeq, lastHash: row.lastHash });
       return { row, entries };
     });
     this.committed(row.id, user.venueId, entries, row.state);

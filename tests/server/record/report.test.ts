@@ -26,7 +26,6 @@ describe('the record of a finished session', () => {
 
   it('runs the drape unload with a note, a refusal and a hold', async () => {
     const { rail, loader1, loader2, deck, sm } = ctx.crew;
-    await go(rail, { type: 'join', role: 'rail' });
     await go(loader1, { type: 'join', role: 'loader' });
     await go(loader2, { type: 'join', role: 'loader' });
     await go(deck, { type: 'join', role: 'deck' });

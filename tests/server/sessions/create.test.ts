@@ -1,6 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { startTestApp, type TestApp } from '../../support/app';
-import { signedIn, type Agent } from '../../support/people';
+import { addVenueWithPeople, signedIn, type Agent } from '../../support/people';
+import { NOT_RAIL_LEAD_TEXT } from '@shared/protocol/sessions-api';
 
 const LB = 0.45359237;
 
@@ -68,5 +69,38 @@ describe('opening a session from the schedule', () => {
     const [row] = await t.database.owner.query('SELECT plan FROM loading_session WHERE id = ?', [res.body.session.id]);
     const plan = typeof row.plan === 'string' ? JSON.parse(row.plan) : row.plan;
     expect(plan.lineSets[0].warnings.map((w: { code: string }) => w.code)).toContain('flagged-out-of-balance');
+  });
+
+  it('joins whoever starts it as the lead at once, in the same transaction, with its own log entry', async () => {
+    const res = await rail.post('/api/sessions').send({ title: 'Led from the start', lineSets: [{ lineSetId: ids[6].id, remove: [], add: [{ name: 'Scrim', massKg: 8, positionM: null }] }] });
+    expect(res.status).toBe(201);
+    const [jo] = await t.database.owner.query("SELECT id FROM person WHERE email = 'rail@larkspur.example'");
+    expect(res.body.state.leadPersonId).toBe(jo.id);
+    expect(res.body.state.participants).toEqual([expect.objectContaining({ personId: jo.id, name: 'Jo Castellan', role: 'rail' })]);
+    const { body } = await rail.get(`/api/sessions/${res.body.session.id}/record`);
+    expect(body.chain).toEqual({ ok: true });
+    expect(body.entries.map((e: { kind: string }) => e.kind)).toEqual(['session-opened', 'joined']);
+    expect(body.entries[1]).toMatchObject({ personId: jo.id, personName: 'Jo Castellan', role: 'rail', details: { lead: true } });
+    // Joining again is already done, not a second participant.
+    const again = await rail.post(`/api/sessions/${res.body.session.id}/actions`).send({ key: 'join-again-1', clientTimeMs: Date.now(), action: { type: 'join', role: 'rail' } });
+    expect(again.status).toBe(409);
+    expect(again.body.error.message).toBe('You have already joined as rail operator.');
+  });
+
+  it('refuses a person without the rail role, saying a rail operator must lead, and writes nothing', async () => {
+    const td = await signedIn(t.url, 'td@larkspur.example');
+    const before = await count();
+    const res = await td.post('/api/sessions').send({ title: 'By the director', lineSets: [{ lineSetId: ids[8].id, remove: [], add: [{ name: 'Cloth', massKg: 8, positionM: null }] }] });
+    expect(res.status).toBe(403);
+    expect(res.body.error.message).toBe(NOT_RAIL_LEAD_TEXT);
+    expect(await count()).toBe(before);
+  });
+
+  it('refuses a rail operator of another venue naming these line sets (no such line set there)', async () => {
+    const { emails } = await addVenueWithPeople(t.database.owner, 'Quillfield Hall', ['rail']);
+    const outsider = await signedIn(t.url, emails.rail);
+    const res = await outsider.post('/api/sessions').send({ title: 'Not ours', lineSets: [{ lineSetId: ids[8].id, remove: [], add: [] }] });
+    expect(res.status).toBe(400);
+    expect(res.body.error.message).toMatch(/No such line set at this venue/);
   });
 });

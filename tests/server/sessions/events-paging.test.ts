@@ -8,7 +8,7 @@ describe('the session log over HTTP, page by page', () => {
   const get = (query: string) => request(ctx.t.url).get(`/api/sessions/${ctx.sessionId}/events?${query}`).set('Cookie', ctx.crew.sm.cookie);
 
   it('pages by `limit`, saying when more follows and where to ask next', async () => {
-    for (const [phone, role] of [[ctx.crew.rail, 'rail'], [ctx.crew.loader1, 'loader'], [ctx.crew.deck, 'deck']] as const) {
+    for (const [phone, role] of [[ctx.crew.loader1, 'loader'], [ctx.crew.deck, 'deck']] as const) {
       await phone.must(ctx.sessionId, { type: 'join', role });
     }
     const all = (await get('after=0')).body;

@@ -31,7 +31,6 @@ describe('a full unload of two drapes from line set 7', () => {
   });
 
   it('runs from joining to the test of balance, every call answered', async () => {
-    await go(crew.rail, { type: 'join', role: 'rail' });
     await go(crew.loader1, { type: 'join', role: 'loader' });
     await go(crew.loader2, { type: 'join', role: 'loader' });
     await go(crew.deck, { type: 'join', role: 'deck' });

@@ -22,7 +22,7 @@ describe('the lead records a "clear" for a silent person after a re-alert', () =
     crew = await demoCrew(t.url);
     ({ sessionId } = await openDrapeUnload(t.url, crew.rail.cookie));
     for (const phone of crew.all) await phone.watch(sessionId);
-    for (const [phone, role] of [[crew.rail, 'rail'], [crew.loader1, 'loader'], [crew.loader2, 'loader'], [crew.deck, 'deck'], [crew.sm, 'stage-manager']] as const) {
+    for (const [phone, role] of [[crew.loader1, 'loader'], [crew.loader2, 'loader'], [crew.deck, 'deck'], [crew.sm, 'stage-manager']] as const) {
       await phone.must(sessionId, { type: 'join', role });
     }
     await crew.rail.must(sessionId, { type: 'begin' });

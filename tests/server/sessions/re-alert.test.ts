@@ -14,7 +14,7 @@ describe('re-alerting whoever is silent after a move call', () => {
     crew = await demoCrew(t.url);
     ({ sessionId } = await openDrapeUnload(t.url, crew.rail.cookie));
     for (const phone of crew.all) await phone.watch(sessionId);
-    for (const [phone, role] of [[crew.rail, 'rail'], [crew.loader1, 'loader'], [crew.loader2, 'loader'], [crew.deck, 'deck']] as const) {
+    for (const [phone, role] of [[crew.loader1, 'loader'], [crew.loader2, 'loader'], [crew.deck, 'deck']] as const) {
       await phone.must(sessionId, { type: 'join', role });
     }
     await crew.rail.must(sessionId, { type: 'begin' });
@@ -55,7 +55,7 @@ describe('re-alerts with two server processes on one database', () => {
     b = await a.restart(); // a second app on the same database, as a second server process
     crew = await demoCrew(a.url);
     ({ sessionId } = await openDrapeUnload(a.url, crew.rail.cookie));
-    for (const [phone, role] of [[crew.rail, 'rail'], [crew.loader1, 'loader'], [crew.loader2, 'loader'], [crew.deck, 'deck']] as const) {
+    for (const [phone, role] of [[crew.loader1, 'loader'], [crew.loader2, 'loader'], [crew.deck, 'deck']] as const) {
       await phone.must(sessionId, { type: 'join', role });
     }
     await crew.rail.must(sessionId, { type: 'begin' });

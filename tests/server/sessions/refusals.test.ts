@@ -50,7 +50,6 @@ describe('the session refuses what is out of order', () => {
   });
 
   it('refuses beginning short-crewed without a reason, and logs the reason when given', async () => {
-    await go(crew.rail, { type: 'join', role: 'rail' });
     await go(crew.loader1, { type: 'join', role: 'loader' });
     await go(crew.deck, { type: 'join', role: 'deck' });
     await refused(crew.rail, { type: 'begin' }, /loader/i);
@@ -155,7 +154,6 @@ describe('ending a session early', () => {
     const { t, crew, sessionId } = f;
     const go = (phone: Phone, action: SessionAction) => phone.must(sessionId, action);
     const before = (await request(t.url).get('/api/schedule').set('Cookie', crew.rail.cookie)).body.lineSets.find((l: { number: number }) => l.number === 7);
-    await go(crew.rail, { type: 'join', role: 'rail' });
     await go(crew.loader1, { type: 'join', role: 'loader' });
     await go(crew.deck, { type: 'join', role: 'deck' });
     await go(crew.rail, { type: 'begin', shortCrewReason: 'Second loader off sick' });

@@ -18,7 +18,6 @@ describe('retries, races and a restart mid-session', () => {
     crew = await demoCrew(t.url);
     ({ sessionId } = await openDrapeUnload(t.url, crew.rail.cookie));
     for (const phone of crew.all) await phone.watch(sessionId);
-    await go(crew.rail, { type: 'join', role: 'rail' });
     await go(crew.loader1, { type: 'join', role: 'loader' });
     await go(crew.loader2, { type: 'join', role: 'loader' });
     await go(crew.deck, { type: 'join', role: 'deck' });
@@ -123,7 +122,7 @@ describe('action keys belong to their first use', () => {
   it('refuses the same key from another person, or for another action, and tells keys apart by case', async () => {
     const { crew, sessionId } = f;
     const key = 'Key-of-the-rail-1';
-    expect((await crew.rail.act(sessionId, { type: 'join', role: 'rail' }, key)).ok).toBe(true);
+    expect((await crew.rail.act(sessionId, { type: 'note', text: 'first' }, key)).ok).toBe(true);
     expect(await crew.deck.act(sessionId, { type: 'join', role: 'deck' }, key)).toMatchObject({ ok: false, error: { code: 'conflict' } });
     expect(await crew.rail.act(sessionId, { type: 'note', text: 'hello' }, key)).toMatchObject({ ok: false, error: { code: 'conflict' } });
     expect((await crew.deck.act(sessionId, { type: 'join', role: 'deck' }, key.toLowerCase())).ok).toBe(true);
@@ -140,7 +139,7 @@ describe('a person whose roles are taken away', () => {
     await admin.post('/api/auth/sign-in').send({ email: 'td@larkspur.example', password: 'larkspur-demo' });
     expect((await admin.put(`/api/people/${deck.id}/roles`).send({ roles: [] })).status).toBe(200);
     await new Promise((r) => setTimeout(r, 100));
-    const seq = await crew.rail.must(sessionId, { type: 'join', role: 'rail' });
+    const seq = await crew.rail.must(sessionId, { type: 'note', text: 'Robin is off the crew tonight' });
     await crew.sm.caughtUpTo(seq);
     expect(crew.deck.lastSeq).toBeLessThan(seq);
     expect(await crew.deck.watch(sessionId)).toMatchObject({ ok: false, error: { code: 'forbidden' } });
