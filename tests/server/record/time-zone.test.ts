@@ -62,7 +62,6 @@ describe("the venue's time zone", () => {
 
   it('shows the report in local time with the offset named, on screen, in the PDF and in the CSV', async () => {
     const { rail, sm } = ctx.crew;
-    await rail.must(ctx.sessionId, { type: 'join', role: 'rail' });
     await sm.must(ctx.sessionId, { type: 'join', role: 'stage-manager' });
     await sm.must(ctx.sessionId, { type: 'note', text: 'Crew call moved to the evening' });
     await rail.must(ctx.sessionId, { type: 'end', reason: 'Get-out postponed' });
