@@ -18,7 +18,8 @@ test('a piece that makes a lift line go slack plans with a warning and what each
   const piece = plan.getByTestId('new-piece-1');
   await piece.getByTestId('new-piece-name').fill('Boat bow');
   await piece.getByTestId('new-piece-weight').fill('300');
-  await piece.getByTestId('new-piece-position').fill('5');
+  // A decimal comma is read as a decimal point.
+  await piece.getByTestId('new-piece-position').fill('5,0');
 
   // 300 lb at 5 ft on the 40 ft spare pipe: line 3 goes slack. A warning, not a refusal.
   await expect(plan.getByTestId('plan-warnings')).toContainText(/Lift line 3 \(at 20' 0"\) goes slack/);
@@ -40,5 +41,14 @@ test('a piece that makes a lift line go slack plans with a warning and what each
   const tdShares = td.page.getByTestId('line-set-balance').getByTestId('lift-line-shares');
   await expect(tdShares.locator('li')).toHaveCount(5);
   await expect(tdShares.locator('li[data-slack="true"]')).toHaveCount(0);
+  await td.page.goto('/schedule');
+
+  // A weight typed with a decimal comma is saved as that number.
+  await td.page.getByTestId('line-set-item-35').click();
+  await td.page.getByTestId('hang-piece').click();
+  await td.page.getByLabel('Piece name').fill('Buoy');
+  await td.page.getByLabel(/^Weight \(lb\)/).fill('40,5');
+  await td.page.getByRole('button', { name: 'Save piece' }).click();
+  await expect(td.page.getByRole('list', { name: 'Pieces' }).getByText('Buoy · 40.5 lb')).toBeVisible();
   expect(errors).toEqual([]);
 });

@@ -41,7 +41,46 @@ export function formatLength(m: number, units: Units): string {
   return `${sign}${feet}' ${inches}"`;
 }
 
-const MASS_PATTERN = /^\s*(-?\d+(?:\.\d+)?|-?\.\d+)\s*(lbs?|#|pounds?|kg|kgs|kilos?|kilograms?)?\s*$/i;
+const DECIMAL_PATTERN = /^[+-]?(?:\d+(?:[.,]\d*)?|[.,]\d+)$/;
+
+/**
+ * Reads a number typed by a person: "40.5", or "40,5" with a decimal comma. A comma before exactly
+ * three digits after 1 to 3 others ("1,500") is refused: it reads as 1500 in one country and 1.5 in
+ * another. Throws an Error with plain words on anything that is not one number.
+ */
+export function parseDecimal(text: string): number {
+  const t = text.trim();
+  if (!DECIMAL_PATTERN.test(t)) throw new Error(`"${text.trim()}" is not a number: write it like 40.5 or 40,5.`);
+  if (/^[+-]?[1-9]\d{0,2},\d{3}$/.test(t)) {
+    const [whole, part] = t.split(',');
+    const small = String(Number(`${whole}.${part}`));
+    throw new Error(`"${t}" could be ${whole}${part} or ${small}: write ${whole}${part} without the comma, or ${small} with a point.`);
+  }
+  return Number(t.replace(',', '.'));
+}
+
+/** A field's text as a number: null when empty, NaN when it is not a number (parseDecimal says why). */
+export function readDecimal(text: string | number | null | undefined): number | null {
+  if (text === null || text === undefined) return null;
+  if (typeof text === 'number') return text;
+  if (!text.trim()) return null;
+  try {
+    return parseDecimal(text);
+  } catch {
+    return Number.NaN;
+  }
+}
+
+/**
+ * Several numbers typed in one field ("2; 11; 20", "2, 11, 20", "2; 11,5; 20"): split on semicolons
+ * when there is one (commas are then decimal commas), else on commas. Each as readDecimal reads it.
+ */
+export function readDecimalList(text: string): number[] {
+  const parts = text.includes(';') ? text.split(';') : text.split(',');
+  return parts.map((p) => p.trim()).filter(Boolean).map((p) => readDecimal(p) as number);
+}
+
+const MASS_PATTERN = /^\s*(-?\d+(?:[.,]\d+)?|-?[.,]\d+)\s*(lbs?|#|pounds?|kg|kgs|kilos?|kilograms?)?\s*$/i;
 
 /**
  * Reads a mass typed by a person, in kg. A number alone is taken in the venue's units;
@@ -54,14 +93,14 @@ export function parseMass(value: string | number, units: Units): number {
   }
   const match = MASS_PATTERN.exec(value);
   if (!match) throw new Error(`"${value}" is not a weight: enter a number, e.g. 40 lb or 18 kg.`);
-  const amount = Number(match[1]);
+  const amount = parseDecimal(match[1]);
   const unit = match[2]?.toLowerCase();
   const imperial = unit ? !unit.startsWith('k') : units === 'imperial';
   return imperial ? lbToKg(amount) : amount;
 }
 
-const FEET_INCHES_PATTERN = /^\s*(?:(\d+(?:\.\d+)?)\s*(?:'|ft|feet|foot))?\s*(?:(\d+(?:\.\d+)?)\s*(?:"|in|inch|inches)?)?\s*$/i;
-const METRES_PATTERN = /^\s*(\d+(?:\.\d+)?|\.\d+)\s*(m|metres?|meters?)?\s*$/i;
+const FEET_INCHES_PATTERN = /^\s*(?:(\d+(?:[.,]\d+)?)\s*(?:'|ft|feet|foot))?\s*(?:(\d+(?:[.,]\d+)?)\s*(?:"|in|inch|inches)?)?\s*$/i;
+const METRES_PATTERN = /^\s*(\d+(?:[.,]\d+)?|[.,]\d+)\s*(m|metres?|meters?)?\s*$/i;
 
 /**
  * Reads a length typed by a person, in metres: imperial as 12' 6", 12 ft 6 in, 12' or 150 in... a bare
@@ -71,13 +110,13 @@ export function parseLength(value: string, units: Units): number {
   if (units === 'metric' || /m(et(er|re)s?)?\s*$/i.test(value)) {
     const match = METRES_PATTERN.exec(value);
     if (!match) throw new Error(`"${value}" is not a length: enter metres, e.g. 3.05 m.`);
-    return Number(match[1]);
+    return parseDecimal(match[1]);
   }
-  const bare = /^\s*(\d+(?:\.\d+)?)\s*$/.exec(value);
-  if (bare) return ftToM(Number(bare[1]));
+  const bare = /^\s*(\d+(?:[.,]\d+)?)\s*$/.exec(value);
+  if (bare) return ftToM(parseDecimal(bare[1]));
   const match = FEET_INCHES_PATTERN.exec(value);
   if (!match || (match[1] === undefined && match[2] === undefined)) {
     throw new Error(`"${value}" is not a length: enter feet and inches, e.g. 12' 6".`);
   }
-  return ftToM(Number(match[1] ?? 0)) + inToM(Number(match[2] ?? 0));
+  return ftToM(parseDecimal(match[1] ?? '0')) + inToM(parseDecimal(match[2] ?? '0'));
 }
