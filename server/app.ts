@@ -13,7 +13,13 @@ import { HttpError } from './middleware/http-error';
 import { originGuard } from './middleware/origin';
 
 /** Client files a phone must revalidate on every load (see the static files below). */
-const ALWAYS_FRESH = new Set(['sw.js', 'manifest.webmanifest', 'index.html']);
+const ALWAYS_FRESH = new Set(['sw.js', 'manifest.webmanifest']);
+/**
+ * The page itself is never stored: a browser keeps no copy of it on disk or in its back-forward cache,
+ * so Back after a sign-out cannot bring the previous person's screen back (the client also re-checks
+ * who is signed in when a page is shown again from that cache, for browsers that keep it anyway).
+ */
+const PAGE_CACHE_CONTROL = 'no-store';
 import { createPassport } from './features/auth/passport';
 import { resetThrottles, signInThrottles } from './features/auth/throttle';
 import { authRoutes } from './features/auth/auth.routes';
@@ -132,6 +138,13 @@ export function createApp({ config, db, logger, redis, setupCode = null }: AppDe
     strictTransportSecurity: config.production,
   }));
   const originPolicy = { publicOrigins: config.publicOrigins, production: config.production };
+  // Answers are about whoever is signed in now: never kept. Without this, Chromium answers a Back
+  // navigation's GET /api/me from its cache (history loads skip revalidation), and the previous
+  // person's screen comes back after a sign-out. Photos set their own private caching.
+  app.use('/api', (_req, res, next) => {
+    res.setHeader('Cache-Control', 'no-store');
+    next();
+  });
   app.use('/api', originGuard(originPolicy));
   // An exported record to check can be large; everything else keeps the small limit.
   app.use('/api/record/verify', express.json({ limit: '20mb' }));
@@ -157,10 +170,11 @@ export function createApp({ config, db, logger, redis, setupCode = null }: AppDe
       // keeps an old app shell for an hour after an update (hashed assets can be cached).
       setHeaders: (res, path) => {
         if (ALWAYS_FRESH.has(basename(path))) res.setHeader('Cache-Control', 'no-cache');
+        if (basename(path) === 'index.html') res.setHeader('Cache-Control', PAGE_CACHE_CONTROL);
       },
     }));
     // The client routes its own paths: every other GET gets the app.
-    app.get('/{*splat}', (_req, res) => res.sendFile(resolve(clientDir, 'index.html'), { headers: { 'Cache-Control': 'no-cache' } }));
+    app.get('/{*splat}', (_req, res) => res.sendFile(resolve(clientDir, 'index.html'), { headers: { 'Cache-Control': PAGE_CACHE_CONTROL } }));
   }
   app.use(errorHandler(logger, config.jsonLimit));
 

@@ -24,8 +24,16 @@ export const setRolesSchema = z.object({
   roles: z.array(roleSchema).max(5),
 });
 
+/**
+ * The token in an invitation or reset link: 32 random bytes in base64url, 43 characters. A link cut
+ * short or garbled (a mail program wrapped it, a character was lost in copying) fails here, before
+ * the server looks anything up.
+ */
+export const LINK_TOKEN_PATTERN = /^[A-Za-z0-9_-]{43}$/;
+export const linkTokenSchema = z.string().trim().regex(LINK_TOKEN_PATTERN, 'This link is cut short or garbled');
+
 export const acceptInviteSchema = z.object({
-  token: z.string().min(20).max(200),
+  token: linkTokenSchema,
   password: passwordSchema,
 });
 
@@ -68,7 +76,7 @@ export const passwordResetRequestSchema = z.object({
 });
 
 export const resetPasswordSchema = z.object({
-  token: z.string().min(20).max(200),
+  token: linkTokenSchema,
   password: passwordSchema,
 });
 

@@ -6,7 +6,7 @@ import * as api from '@/services/api';
 import { ApiFailure } from '@/services/http';
 import { forgetEverything, loadMe, saveMe } from '@/services/offlineCache';
 import { socket } from '@/services/socket';
-import { homeFor, orderedRoles, roleHomesFor } from '@/router/access';
+import { homeFor, orderedRoles, roleHomesFor, SIGN_IN_PATH } from '@/router/access';
 import { useConnectionStore } from './connection';
 
 /** Who is signed in, and the sign-in and sign-out steps. */
@@ -98,6 +98,17 @@ export const useAuthStore = defineStore('auth', () => {
   socket.on('auth:signed-out', () => {
     become(null);
     void forgetEverything();
+  });
+  // Shown again from the browser's back-forward cache (Back after leaving the page): the page's state
+  // is as it was, maybe another person's. Ask who is signed in now; anyone else starts from a fresh page.
+  window.addEventListener('pageshow', (event) => {
+    if (!event.persisted) return;
+    const shownFor = me.value?.id ?? null;
+    void api.getMeOrNull().then((now) => {
+      if ((now?.id ?? null) === shownFor) return;
+      become(null);
+      window.location.replace(now ? '/' : SIGN_IN_PATH);
+    }, () => undefined);
   });
   // Another tab of this sign-in switched venue: show the venue it chose here too.
   socket.on('me:venue-changed', () => void load().catch(() => undefined));

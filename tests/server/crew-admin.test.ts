@@ -54,7 +54,10 @@ describe('crew administration', () => {
     await closed;
     expect(await stored()).toBe(0);
     expect((await deckHttp.get('/api/me')).status).toBe(401);
-    expect((await request(t.url).post('/api/auth/sign-in').send({ email: 'deck@larkspur.example', password: DEMO_PASSWORD })).status).toBe(401);
+    // Told so, with the right password only (tests/server/sign-in-edges.test.ts): nothing signs in.
+    const refused = await request(t.url).post('/api/auth/sign-in').send({ email: 'deck@larkspur.example', password: DEMO_PASSWORD });
+    expect(refused.status).toBe(403);
+    expect(refused.body.error.message).toMatch(/deactivated/);
     // A stale cookie cannot open a socket either.
     await expect(deck.reconnect()).rejects.toBeTruthy();
     // Their entry stays in the log under their name.

@@ -5,6 +5,7 @@ import { HttpError } from '../../middleware/http-error';
 import { SESSION_COOKIE } from '../../middleware/session';
 import { route, type RouteSpec } from '../../middleware/routes';
 import type { PeopleService, SignedInUser } from '../people/people.service';
+import type { SignInRefusal } from './passport';
 import type { RequestHandler } from 'express';
 
 export interface AuthRouteDeps {
@@ -31,13 +32,22 @@ export function logIn(req: Request, user: SignedInUser): Promise<void> {
   });
 }
 
-function authenticate(passport: PassportStatic, req: Request): Promise<SignedInUser | false> {
+function authenticate(passport: PassportStatic, req: Request): Promise<SignedInUser | SignInRefusal> {
   return new Promise((resolve, reject) => {
-    passport.authenticate('local', { session: false }, (error: unknown, user: SignedInUser | false) => {
+    passport.authenticate('local', { session: false }, (error: unknown, user: SignedInUser | false, info?: SignInRefusal) => {
       if (error) reject(error);
-      else resolve(user);
+      else resolve(user || (info?.message ? info : { message: 'wrong' }));
     })(req, req.res, reject);
   });
+}
+
+/** What a refused sign-in is told. An unknown e-mail and a wrong password read the same. */
+function refusal(why: SignInRefusal['message']): HttpError {
+  if (why === 'no-role') {
+    return new HttpError('forbidden', 'Your password is right, but you hold no role at this venue any more. Ask your technical director to give you one.');
+  }
+  if (why === 'deactivated') return new HttpError('forbidden', 'Your password is right, but this account has been deactivated. Ask your technical director.');
+  return new HttpError('unauthenticated', 'E-mail or password is wrong.');
 }
 
 export function authRoutes(deps: AuthRouteDeps): RouteSpec[] {
@@ -51,7 +61,7 @@ export function authRoutes(deps: AuthRouteDeps): RouteSpec[] {
       async handler({ req, body }) {
         req.body = body;
         const user = await authenticate(deps.passport, req);
-        if (!user) throw new HttpError('unauthenticated', 'E-mail or password is wrong.');
+        if ('message' in user) throw refusal(user.message);
         await logIn(req, user);
         return deps.people.me(user);
       },

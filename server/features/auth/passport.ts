@@ -13,6 +13,11 @@ declare global {
   }
 }
 
+/** Why a sign-in was refused: "wrong" for an unknown e-mail or a wrong password alike; the others only after the password was right. */
+export interface SignInRefusal {
+  message: 'wrong' | 'deactivated' | 'no-role';
+}
+
 /** A passport instance of our own (not the global singleton), so each app in a test stands alone. */
 export function createPassport(people: PeopleService): passport.PassportStatic {
   const instance = new passport.Passport() as unknown as passport.PassportStatic;
@@ -20,9 +25,11 @@ export function createPassport(people: PeopleService): passport.PassportStatic {
     (async () => {
       const person = await people.findByEmail(email);
       const ok = await verifyPassword(person?.passwordHash ?? null, password);
-      if (!person || !ok) return done(null, false);
+      if (!person || !ok) return done(null, false, { message: 'wrong' } satisfies SignInRefusal);
+      // Only now, with the password right, may the answer say more than "wrong".
+      if (person.deactivatedAt) return done(null, false, { message: 'deactivated' } satisfies SignInRefusal);
       const user = await people.loadUser(person.id);
-      return done(null, user ?? false);
+      return done(null, user ?? false, user ? undefined : ({ message: 'no-role' } satisfies SignInRefusal));
     })().catch(done);
   }));
   instance.serializeUser((user, done) => done(null, (user as SignedInUser).id));
