@@ -1,4 +1,5 @@
 import type request from 'supertest';
+import sharp from 'sharp';
 import type { Role } from '@shared/protocol/roles';
 import { DEFAULT_SETTINGS } from '@shared/protocol/schedule';
 import { csvHeaders } from '@shared/protocol/schedule-csv';
@@ -12,6 +13,9 @@ const EVERYONE: Who[] = ROLES;
 
 let counter = 0;
 const unique = () => ++counter;
+/** A real 8 x 8 PNG for the upload routes, made once. */
+let png: Promise<Buffer> | null = null;
+const smallPng = () => (png ??= sharp({ create: { width: 8, height: 8, channels: 3, background: '#336699' } }).png().toBuffer());
 
 export interface AccessCtx {
   /** A person of the home venue (Larkspur's deck hand). */
@@ -29,8 +33,8 @@ export interface AccessCtx {
   who: Who;
   /** A home-venue line set as it is now: its id, version and editable fields (read fresh for each request). */
   lineSet(number: number): Promise<{ id: number; version: number; fields: Record<string, unknown>; pieceIds: number[] }>;
-  /** A throwaway home-venue row made for a delete: a line set, a piece on line set 30, or a brick type. */
-  scratch(kind: 'line-set' | 'piece' | 'brick-type'): Promise<number>;
+  /** A throwaway home-venue row made for a delete: a line set, a piece on line set 30, a brick type or a photo. */
+  scratch(kind: 'line-set' | 'piece' | 'brick-type' | 'photo'): Promise<number>;
   brickTypeId: number;
   /** The home venue (the Larkspur Playhouse), where every signed-in agent of the home rows works. */
   venueId: number;
@@ -219,8 +223,9 @@ export const ACCESS_TABLE: Record<string, AccessCase> = {
   },
   'post /sessions': {
     // Whoever starts a session leads it from the rail: a technical director without the rail role is told so (403),
-    // and so is another venue's admin (a rail operator of another venue naming these line sets: tests/server/sessions/create.test.ts).
-    allowed: ['admin', 'rail'], okStatus: 201, otherwise: { admin: 403 }, otherVenue: 403,
+    // and so is another venue's admin; a rail operator of another venue naming these line sets: no such line set there (400,
+    // tests/server/sessions/create.test.ts).
+    allowed: ['admin', 'rail'], okStatus: 201, otherwise: { admin: 403 }, otherVenue: 403, otherVenueOtherwise: { rail: 400 },
     send: (a, c) => a.post('/api/sessions').send({ title: 'Access check', lineSets: [{ lineSetId: c.freeLineSet(), remove: [], add: [] }] }),
   },
   'get /sessions': { allowed: EVERYONE, okStatus: 200, otherVenue: 200, send: (a) => a.get('/api/sessions?active=1') },
@@ -254,6 +259,23 @@ export const ACCESS_TABLE: Record<string, AccessCase> = {
     send: (a) => a.post('/api/record/verify').send({ text: 'not a record' }),
   },
   'get /record/line-sets/:id': { allowed: EVERYONE, okStatus: 200, otherVenue: 404, send: (a, c) => a.get(`/api/record/line-sets/${c.lineSetId}`) },
+  // Photos of a hang: everyone at the venue sees them; the director and rail operators add and remove them.
+  'get /line-sets/:id/photos': { allowed: EVERYONE, okStatus: 200, otherVenue: 404, send: (a, c) => a.get(`/api/line-sets/${c.lineSetId}/photos`) },
+  'post /line-sets/:id/photos': {
+    allowed: ['admin', 'rail'], okStatus: 201, otherVenue: 404,
+    send: async (a, c) => a.post(`/api/line-sets/${c.lineSetId}/photos`).attach('photo', await smallPng(), 'hang.png'),
+  },
+  // Photo 1 is the demo's drawing of line set 7.
+  'get /photos/:id/image': { allowed: EVERYONE, okStatus: 200, otherVenue: 404, send: (a) => a.get('/api/photos/1/image') },
+  'get /photos/:id/thumb': { allowed: EVERYONE, okStatus: 200, otherVenue: 404, send: (a) => a.get('/api/photos/1/thumb') },
+  'delete /photos/:id': {
+    allowed: ['admin', 'rail'], okStatus: 204, otherVenue: 404,
+    // A home-venue photo of its own to remove (added as the owner); the demo's for those refused before anything happens.
+    async send(a, c) {
+      const id = c.who === 'admin' || c.who === 'rail' ? await c.scratch('photo') : 1;
+      return a.delete(`/api/photos/${id}`);
+    },
+  },
 };
 
 /** The status a row expects for one person: allowed or not, home venue or another. */
