@@ -30,6 +30,16 @@ test('a piece that makes a lift line go slack plans with a warning and what each
   await expect(shares.locator('li').nth(2)).toContainText('Line 3 (at 20\' 0"): slack, carries nothing');
   await expect(shares.locator('li').nth(0)).toContainText(/Line 1 \(at 2' 0"\): [\d.]+ lb of 500 lb rated/);
   await expectScreenSound(page, 'planner with a slack lift line', errors);
+  // Every label of the balance picture shows at least 14 px high on the phone.
+  const picture = plan.getByTestId('balance-picture').locator('svg');
+  await expect(picture).toBeVisible();
+  const sizes = await picture.evaluate((svg: SVGSVGElement) => {
+    const scale = svg.getScreenCTM()!.a;
+    return [...svg.querySelectorAll('text')].map((t) => parseFloat(getComputedStyle(t).fontSize) * scale);
+  });
+  expect(sizes.length).toBeGreaterThan(3);
+  for (const px of sizes) expect(px).toBeGreaterThanOrEqual(14);
+  await expect(plan.getByTestId('piece-names')).toContainText('Boat bow');
   await expect(page.getByTestId('start-session')).toBeEnabled();
   await page.getByTestId('start-session').click();
   await expect(page).toHaveURL(/\/sessions\/\d+$/);

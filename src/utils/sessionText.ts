@@ -3,7 +3,7 @@
  * The sentences that do not (what must happen next, log lines) come from shared/protocol/session.
  */
 import { utcOffsetName } from '@shared/protocol/time-zone';
-import { formatMass, type BrickCounts, type BrickType, type PlanStep, type Units } from '@shared/rigging';
+import { formatMass, KG_PER_LB, type BrickCounts, type BrickType, type PlanStep, type Units } from '@shared/rigging';
 
 /** Below this the set reads as balanced (the same threshold as the session's own words). */
 export const BALANCED_WITHIN_KG = 0.05;
@@ -20,6 +20,31 @@ export function balanceWords(imbalanceKg: number, units: Units): string {
   const side = heavySide(imbalanceKg);
   if (side === 'balanced') return 'Balanced';
   return `${side === 'pipe' ? 'Pipe' : 'Arbor'}-heavy by ${formatMass(Math.abs(imbalanceKg), units)}`;
+}
+
+/** The two sides of a balance and the balance itself, as shown together: "108.7 lb", "107.1 lb", "Pipe-heavy by 1.6 lb". */
+export interface BalanceSides {
+  battenSide: string;
+  arborSide: string;
+  words: string;
+  side: HeavySide;
+}
+
+/**
+ * Rounds each side once, to the 0.1 lb or 0.1 kg the screens show, and states the balance as the
+ * difference of those rounded figures, so what is shown always subtracts: 108.7 − 107.1 = 1.6, never 1.7.
+ * `arborAtBattenKg` is the arbor side as the batten feels it (divided by the purchase).
+ */
+export function balanceSides(battenKg: number, arborAtBattenKg: number, units: Units): BalanceSides {
+  const unit = units === 'imperial' ? 'lb' : 'kg';
+  const tenths = (kg: number) => Math.round((units === 'imperial' ? kg / KG_PER_LB : kg) * 10);
+  const batten = tenths(battenKg);
+  const arbor = tenths(arborAtBattenKg);
+  const show = (t: number) => `${t / 10} ${unit}`;
+  const diff = batten - arbor;
+  const side: HeavySide = diff === 0 ? 'balanced' : diff > 0 ? 'pipe' : 'arbor';
+  const words = side === 'balanced' ? 'Balanced' : `${side === 'pipe' ? 'Pipe' : 'Arbor'}-heavy by ${show(Math.abs(diff))}`;
+  return { battenSide: show(batten), arborSide: show(arbor), words, side };
 }
 
 function countsOf(bricks: BrickCounts | undefined): Array<[string, number]> {

@@ -40,6 +40,8 @@ describe('BalancePicture', () => {
     expect(wrapper.get('[data-testid="brick-count"]').text()).toBe('2');
     expect(wrapper.findAll('[data-testid="brick"]')).toHaveLength(2);
     expect(wrapper.findAll('[data-testid="piece"]')).toHaveLength(2);
+    // The picture numbers the pieces; their names are listed in full beside it, never cut.
+    expect(wrapper.findAll('[data-testid="piece-names"] li').map((li) => li.text())).toEqual(['Sea-mist drape A', 'Sea-mist drape B']);
     expect(wrapper.get('svg title').text()).toContain('Pipe-heavy by 40 lb');
   });
 
