@@ -1,7 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { parse } from 'csv-parse/sync';
 import { stringify } from 'csv-stringify/sync';
-import { DEFAULT_SETTINGS, type LineSetView } from '@shared/protocol/schedule';
+import { DEFAULT_SETTINGS, type HistoryEntry, type LineSetView } from '@shared/protocol/schedule';
 import { csvHeaders } from '@shared/protocol/schedule-csv';
 import { startTestApp, type TestApp } from '../support/app';
 import { addVenueWithPeople, signedIn, type Agent } from '../support/people';
@@ -115,6 +115,36 @@ describe('the schedule as CSV', () => {
     expect(ls.pieces[0].massKg).toBeCloseTo(42.5 * LB, 12);
     const history = (await td.get(`/api/line-sets/${ls.id}/history`)).body.entries;
     expect(history.map((e: { via: string; subject: string }) => `${e.subject} ${e.via}`)).toEqual(['piece CSV import', 'line-set CSV import']);
+    // Each history row names the row it made (the batched insert reads the new ids back).
+    expect(history.map((e: HistoryEntry) => [e.subject, e.action, e.subjectId, e.lineSetId])).toEqual([
+      ['piece', 'create', ls.pieces[0].id, ls.id], ['line-set', 'create', ls.id, ls.id],
+    ]);
+    expect(history[0].changes.name).toEqual([null, 'Tour drape 101']);
+    expect(history[1].changes.number).toEqual([null, 101]);
+  });
+
+  it('keeps one history row per piece added, changed or removed by an import, naming each piece', async () => {
+    const before = (await schedule(td)).lineSets.find((l) => l.number === 103)!;
+    const kept = new Set(((await td.get(`/api/line-sets/${before.id}/history`)).body.entries as HistoryEntry[]).map((e) => e.id));
+    const rows: Row[] = parse(await exported(td), { columns: true });
+    const drape = rows.findIndex((r) => r.row === 'piece' && r.name === 'Tour drape 103');
+    rows.splice(drape, 1,
+      { ...rows[drape], name: 'Tour border 103', weight_lb: '30' },
+      { ...rows[drape], name: 'Tour leg 103', weight_lb: '18', spread_from_ft: '', spread_to_ft: '', at_ft: '6' });
+    const done = await importCsv(td, stringify(rows, { header: true, columns: csvHeaders('imperial') }));
+    expect(done.status, JSON.stringify(done.body)).toBe(200);
+    expect(done.body.counts).toMatchObject({ updated: 1, piecesCreated: 2, piecesDeleted: 1 });
+    const after = (await schedule(td)).lineSets.find((l) => l.number === 103)!;
+    expect(after.pieces.map((p) => p.name)).toEqual(['Tour border 103', 'Tour leg 103']);
+    const history: HistoryEntry[] = (await td.get(`/api/line-sets/${after.id}/history`)).body.entries;
+    const byImport = history.filter((e) => !kept.has(e.id));
+    const id = (name: string) => after.pieces.find((p) => p.name === name)!.id;
+    // The set's own fields are unchanged, so it has no row of its own (an empty change is not kept).
+    expect(byImport.map((e) => [e.subject, e.action, e.subjectId]).sort()).toEqual([
+      ['piece', 'create', id('Tour border 103')], ['piece', 'create', id('Tour leg 103')], ['piece', 'delete', before.pieces[0].id],
+    ].sort());
+    expect(after.version).toBe(before.version + 1);
+    expect(byImport.every((e) => e.via === 'CSV import' && e.personName !== '')).toBe(true);
   });
 
   it('previews a change as old and new values, then writes only that', async () => {

@@ -1,5 +1,5 @@
 import { createHash } from 'node:crypto';
-import type { DataSource, EntityManager } from 'typeorm';
+import { In, type DataSource, type EntityManager } from 'typeorm';
 import { parse } from 'csv-parse/sync';
 import { stringify } from 'csv-stringify/sync';
 import { KG_PER_LB, M_PER_FT } from '@shared/rigging';
@@ -20,12 +20,14 @@ import type { SignedInUser } from '../people/people.service';
 import { BrickTypeRow } from './brick-type.entity';
 import { LineSetRow } from './line-set.entity';
 import { PieceRow } from './piece.entity';
-import { diffFields, recordChange } from './history';
-import { LINE_SET_FIELDS, PIECE_FIELDS, lineSetFieldsOf, mayEditLineSets, openSessionHolding, pieceFieldsOf } from './schedule-edit.service';
+import { diffFields, recordChanges, type ChangeEntry } from './history';
+import { LINE_SET_FIELDS, PIECE_FIELDS, lineSetFieldsOf, mayEditLineSets, openSessionsByLineSet, pieceFieldsOf } from './schedule-edit.service';
 import type { ScheduleService } from './schedule.service';
 
 /** Decimals written: 0.0001 ft is 0.03 mm, 0.0001 lb is 0.05 g. Import compares at the same precision. */
 const DECIMALS = 4;
+/** Line sets or pieces per multi-row INSERT: a few hundred bytes each, far below max_allowed_packet. */
+const ROWS_PER_INSERT = 500;
 
 /** SI value -> the number a venue reads, and back. Exact factors: 1 lb = 0.45359237 kg, 1 ft = 0.3048 m. */
 function toUnits(quantity: CsvColumn['quantity'], si: number, units: UnitSystem): number {
@@ -156,6 +158,7 @@ export class ScheduleCsv {
       ? await m.getRepository(PieceRow).createQueryBuilder('p').where('p.line_set_id IN (:...ids)', { ids: existing.map((s) => s.id) }).orderBy('p.id').getMany()
       : [];
 
+    const held = await openSessionsByLineSet(m, user.venueId);
     const changes: CsvLineSetChange[] = [];
     const touched: LineSetRow[] = [];
     for (const set of sets) {
@@ -177,7 +180,7 @@ export class ScheduleCsv {
       changes.push({ number: set.fields.number, name: set.fields.name, action, fields, pieces: pieceChanges });
       if (row && action === 'update') {
         touched.push(row);
-        const session = await openSessionHolding(m, user.venueId, row.id);
+        const session = held.get(row.id);
         if (session) errors.push({ line: set.line, column: null, message: `Line set ${row.number} is in the open loading session "${session.title}" (session ${session.id}): it cannot be changed until that session is finished or ended.` });
       }
     }
@@ -198,19 +201,33 @@ export class ScheduleCsv {
     return { units, lineSets: changes, token, counts };
   }
 
-  /** Writes only what differs at the file's precision, so exporting and importing back changes nothing. */
+  /**
+   * Writes only what differs at the file's precision, so exporting and importing back changes nothing.
+   * Batched: new line sets, new pieces and history rows go in multi-row INSERTs, removed pieces in one
+   * DELETE; only a changed existing line set or piece is an UPDATE of its own. The history keeps the
+   * order of the file (a line set, then its pieces).
+   */
   private async write(m: EntityManager, user: SignedInUser, sets: ParsedLineSet[], byNumber: Map<number, LineSetRow>, pieces: PieceRow[], units: UnitSystem): Promise<void> {
     const author = { personId: user.id, personName: user.name, reason: 'CSV import', via: 'CSV import' };
-    const atMs = this.now();
+    const venueId = user.venueId;
+    const history: ChangeEntry[] = [];
+    const added: Array<{ lineSetId: number; fields: PieceFields; entry: ChangeEntry }> = [];
+    const addPiece = (lineSetId: number, fields: PieceFields) => {
+      // The piece's id is known after the insert: the entry takes its place in the history now.
+      const entry: ChangeEntry = { venueId, subject: 'piece', subjectId: null, lineSetId, action: 'create', changes: diffFields(null, fields, PIECE_FIELDS) };
+      history.push(entry);
+      added.push({ lineSetId, fields, entry });
+    };
+
+    const fresh = sets.filter((s) => !byNumber.has(s.fields.number));
+    const freshIds = await this.insertLineSets(m, venueId, fresh);
+    const removed: number[] = [];
     for (const set of sets) {
-      let row = byNumber.get(set.fields.number);
+      const row = byNumber.get(set.fields.number);
       if (!row) {
-        const { outOfService, ...fields } = set.fields;
-        row = await m.getRepository(LineSetRow).save(m.getRepository(LineSetRow).create({
-          venueId: user.venueId, ...fields, pipeKg: fields.pipeKgPerM * fields.pipeLengthM, outOfBalance: false, outOfService, version: 1,
-        }));
-        await recordChange(m, { venueId: user.venueId, subject: 'line-set', subjectId: row.id, lineSetId: row.id, action: 'create', changes: diffFields(null, set.fields, [...LINE_SET_FIELDS, 'outOfService']) }, author, atMs);
-        for (const p of set.pieces) await this.addPiece(m, user.venueId, row.id, p.fields, author, atMs);
+        const id = freshIds.get(set.fields.number)!;
+        history.push({ venueId, subject: 'line-set', subjectId: id, lineSetId: id, action: 'create', changes: diffFields(null, set.fields, [...LINE_SET_FIELDS, 'outOfService']) });
+        for (const p of set.pieces) addPiece(id, p.fields);
         continue;
       }
       const before: LineSetOut = { ...lineSetFieldsOf(row), outOfService: row.outOfService };
@@ -224,7 +241,7 @@ export class ScheduleCsv {
       let piecesChanged = false;
       for (const p of set.pieces) {
         const old = hung.find((h) => h.name === p.fields.name && !matched.has(h.id));
-        if (!old) { await this.addPiece(m, user.venueId, row.id, p.fields, author, atMs); piecesChanged = true; continue; }
+        if (!old) { addPiece(row.id, p.fields); piecesChanged = true; continue; }
         matched.add(old.id);
         const was = cellsOfPiece(old, units);
         const next = pieceFieldsOf(old);
@@ -232,27 +249,54 @@ export class ScheduleCsv {
         const changes = diffFields(pieceFieldsOf(old), next, PIECE_FIELDS);
         if (Object.keys(changes).length) {
           await m.getRepository(PieceRow).update({ id: old.id }, next);
-          await recordChange(m, { venueId: user.venueId, subject: 'piece', subjectId: old.id, lineSetId: row.id, action: 'update', changes }, author, atMs);
+          history.push({ venueId, subject: 'piece', subjectId: old.id, lineSetId: row.id, action: 'update', changes });
           piecesChanged = true;
         }
       }
       for (const h of hung) {
         if (matched.has(h.id)) continue;
-        await m.getRepository(PieceRow).delete({ id: h.id });
-        await recordChange(m, { venueId: user.venueId, subject: 'piece', subjectId: h.id, lineSetId: row.id, action: 'delete', changes: diffFields(pieceFieldsOf(h), null, PIECE_FIELDS) }, author, atMs);
+        removed.push(h.id);
+        history.push({ venueId, subject: 'piece', subjectId: h.id, lineSetId: row.id, action: 'delete', changes: diffFields(pieceFieldsOf(h), null, PIECE_FIELDS) });
         piecesChanged = true;
       }
       const changes = diffFields(before, after, [...LINE_SET_FIELDS, 'outOfService']);
       if (Object.keys(changes).length || piecesChanged) {
         await m.getRepository(LineSetRow).update({ id: row.id }, { ...after, pipeKg: after.pipeKgPerM * after.pipeLengthM, version: row.version + 1 });
-        await recordChange(m, { venueId: user.venueId, subject: 'line-set', subjectId: row.id, lineSetId: row.id, action: 'update', changes }, author, atMs);
+        history.push({ venueId, subject: 'line-set', subjectId: row.id, lineSetId: row.id, action: 'update', changes });
       }
     }
+    if (removed.length) await m.getRepository(PieceRow).delete({ id: In(removed) });
+    await this.insertPieces(m, added, new Set(pieces.map((p) => p.id)));
+    await recordChanges(m, history, author, this.now());
   }
 
-  private async addPiece(m: EntityManager, venueId: number, lineSetId: number, piece: PieceFields, author: { personId: number; personName: string; reason: string; via: string }, atMs: number) {
-    const saved = await m.getRepository(PieceRow).save(m.getRepository(PieceRow).create({ lineSetId, ...piece }));
-    await recordChange(m, { venueId, subject: 'piece', subjectId: saved.id, lineSetId, action: 'create', changes: diffFields(null, piece, PIECE_FIELDS) }, author, atMs);
+  /** New line sets in multi-row INSERTs; answers their ids by number (read back: (venue, number) is unique). */
+  private async insertLineSets(m: EntityManager, venueId: number, sets: ParsedLineSet[]): Promise<Map<number, number>> {
+    if (sets.length === 0) return new Map();
+    const rows = sets.map(({ fields: { outOfService, ...fields } }) => ({
+      venueId, ...fields, pipeKg: fields.pipeKgPerM * fields.pipeLengthM, outOfBalance: false, outOfService, version: 1,
+    }));
+    for (let i = 0; i < rows.length; i += ROWS_PER_INSERT) {
+      await m.createQueryBuilder().insert().into(LineSetRow).values(rows.slice(i, i + ROWS_PER_INSERT)).updateEntity(false).execute();
+    }
+    const ids = await m.getRepository(LineSetRow).find({ select: { id: true, number: true }, where: { venueId, number: In(sets.map((s) => s.fields.number)) } });
+    return new Map(ids.map((r) => [r.number, r.id]));
+  }
+
+  /**
+   * New pieces in multi-row INSERTs, then their ids read back into their history entries: a new piece
+   * is one of those line sets' pieces that was not there before, known by its name (unique on its set in a file).
+   */
+  private async insertPieces(m: EntityManager, added: Array<{ lineSetId: number; fields: PieceFields; entry: ChangeEntry }>, before: Set<number>): Promise<void> {
+    if (added.length === 0) return;
+    const rows = added.map((a) => ({ lineSetId: a.lineSetId, ...a.fields }));
+    for (let i = 0; i < rows.length; i += ROWS_PER_INSERT) {
+      await m.createQueryBuilder().insert().into(PieceRow).values(rows.slice(i, i + ROWS_PER_INSERT)).updateEntity(false).execute();
+    }
+    const lineSetIds = [...new Set(added.map((a) => a.lineSetId))];
+    const now = await m.getRepository(PieceRow).find({ select: { id: true, lineSetId: true, name: true }, where: { lineSetId: In(lineSetIds) } });
+    const idOf = new Map(now.filter((p) => !before.has(p.id)).map((p) => [`${p.lineSetId}\u0000${p.name}`, p.id]));
+    for (const a of added) a.entry.subjectId = idOf.get(`${a.lineSetId}\u0000${a.fields.name}`) ?? null;
   }
 }
 
