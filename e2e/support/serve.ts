@@ -1,6 +1,7 @@
 // The servers the end-to-end tests drive: one real app per lane, each with a fresh seeded database,
 // serving the built client from dist/ (scripts/test.mjs builds it first).
-import { mkdtempSync, rmSync } from 'node:fs';
+import { spawn } from 'node:child_process';
+import { mkdtempSync, openSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { createApp } from '../../server/app';
@@ -10,13 +11,17 @@ import { seedIfEmpty } from '../../server/db/setup';
 import { createLogger } from '../../server/logger';
 import { createTestDatabase } from '../../tests/support/db';
 import { playPastDrapeUnload } from '../../server/db/seed/past-session';
-import { E2E_BASE_PORT, LANES } from './lanes';
+import { E2E_BASE_PORT, FIRST_RUN_LOG, LANES, type Lane } from './lanes';
 
 const stops: (() => Promise<void>)[] = [];
 // One local fake mail server for every lane; the mail spec reads what it keeps through the mailbox page.
 const mailDir = mkdtempSync(join(tmpdir(), 'railcall-e2e-mail-'));
 const smtp = await startFakeSmtp({ dir: mailDir });
 for (const [i, lane] of LANES.entries()) {
+  if (lane === 'first-run') {
+    stops.push(await serveFirstRun(lane, E2E_BASE_PORT + i));
+    continue;
+  }
   const database = await createTestDatabase();
   await seedIfEmpty(database.owner);
   const base = database.config;
@@ -38,6 +43,43 @@ for (const [i, lane] of LANES.entries()) {
     await db.destroy();
     await database.drop();
   });
+}
+
+/**
+ * An install on its first day: `node --import tsx server/index.ts` exactly as `npm start` runs it, on
+ * a migrated empty database with RAILCALL_SEED_DEMO=0, so it prints a setup code to its console (the file
+ * FIRST_RUN_LOG). Answers how to stop it: SIGTERM to that process (its own clean shutdown), then the database.
+ */
+async function serveFirstRun(lane: Lane, port: number): Promise<() => Promise<void>> {
+  const database = await createTestDatabase();
+  const url = `http://127.0.0.1:${port}`;
+  const log = openSync(FIRST_RUN_LOG, 'w');
+  const server = spawn(process.execPath, ['--import', 'tsx', 'server/index.ts'], {
+    env: {
+      PATH: process.env.PATH ?? '',
+      ...database.env,
+      RAILCALL_PORT: String(port), RAILCALL_HOST: '127.0.0.1', RAILCALL_PUBLIC_URL: url,
+      RAILCALL_SEED_DEMO: '0', RAILCALL_CLIENT_DIR: 'dist', RAILCALL_LOG_LEVEL: 'warn',
+      RAILCALL_DATA_DIR: mkdtempSync(join(tmpdir(), 'railcall-e2e-files-')),
+      RAILCALL_SMTP_HOST: '127.0.0.1', RAILCALL_SMTP_PORT: String(smtp.port), RAILCALL_MAILBOX_DIR: mailDir,
+    },
+    stdio: ['ignore', log, log],
+  });
+  const exited = new Promise<void>((resolve) => server.once('exit', () => resolve()));
+  // Ready when it answers; a server that exits first fails the whole run with its console to read.
+  for (let tries = 0; ; tries++) {
+    if (server.exitCode !== null) throw new Error(`the first-run server exited (${server.exitCode}): see ${FIRST_RUN_LOG}`);
+    const ok = await fetch(`${url}/api/setup`).then((r) => r.ok, () => false);
+    if (ok) break;
+    if (tries > 600) throw new Error(`the first-run server did not answer in 60 s: see ${FIRST_RUN_LOG}`);
+    await new Promise((r) => setTimeout(r, 100));
+  }
+  console.log(`[e2e] lane ${lane} on ${url} (server/index.ts, no demo; console in ${FIRST_RUN_LOG})`);
+  return async () => {
+    server.kill('SIGTERM');
+    await exited;
+    await database.drop();
+  };
 }
 
 async function stop() {

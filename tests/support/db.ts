@@ -20,6 +20,8 @@ export function testServerAccount(): Omit<DbConfig, 'database'> {
 
 export interface TestDatabase {
   config: Config;
+  /** The environment `config` was read from: for starting the real server process (server/index.ts) on this database. */
+  env: Record<string, string>;
   /** Connected as the schema owner (the test account): for arranging and inspecting. */
   owner: DataSource;
   drop(): Promise<void>;
@@ -39,7 +41,7 @@ export async function createTestDatabase(opts: { migrate?: boolean } = {}): Prom
   await admin.query(`CREATE USER '${name}'@'127.0.0.1' IDENTIFIED BY '${appPassword}'`);
   await admin.destroy();
 
-  const config = loadConfig({
+  const env = {
     NODE_ENV: 'test',
     RAILCALL_DB_HOST: server.host,
     RAILCALL_DB_PORT: String(server.port),
@@ -51,13 +53,15 @@ export async function createTestDatabase(opts: { migrate?: boolean } = {}): Prom
     RAILCALL_SESSION_SECRET: randomBytes(24).toString('hex'),
     RAILCALL_CLIENT_DIR: '',
     RAILCALL_LOG_LEVEL: 'silent',
-  });
+  };
+  const config = loadConfig(env);
   const owner = createDataSource(config.dbOwner, { poolSize: 3 });
   await owner.initialize();
   if (opts.migrate !== false) await migrate(owner, config);
 
   return {
     config,
+    env,
     owner,
     async drop() {
       await owner.query(`DROP DATABASE IF EXISTS \`${name}\``);
