@@ -85,16 +85,21 @@ test('from a first run, the director sets up the venue and its schedule, and a r
   await expect(balance).toBeVisible();
   const before = await balance.innerText();
   await dialog.getByTestId('hang-piece').click();
-  await dialog.getByLabel('Piece name').fill('House curtain');
-  await dialog.getByLabel('Weight (lb)').fill('180');
+  await expect(dialog.getByText('No capacity warnings.')).toBeVisible();
+  // A heavy point load right at a lift line: more than that line's 500 lb rating.
+  await dialog.getByLabel('Piece name').fill('Shell ceiling');
+  await dialog.getByLabel('Weight (lb)').fill('640');
+  await dialog.getByText('At a point', { exact: true }).click();
+  await dialog.getByLabel('At (ft from stage-left end)').fill('11');
   await dialog.getByRole('button', { name: 'Save piece' }).click();
-  await expect(dialog.getByRole('list', { name: 'Pieces' }).getByText('House curtain')).toBeVisible();
+  await expect(dialog.getByRole('list', { name: 'Pieces' }).getByText('Shell ceiling')).toBeVisible();
   await expect.poll(() => balance.innerText()).not.toBe(before);
+  await expect(balance).toContainText('pipe-heavy');
   await expect(dialog.getByTestId('line-set-warnings')).toBeVisible();
 
-  // 4. A photo of the hang, chosen through the file input inside the photo picker.
+  // 4. A photo of the hang. QFile puts its attributes (the test id too) on its native file input.
   const png = await sharp({ create: { width: 96, height: 64, channels: 3, background: '#3a4a5c' } }).png().toBuffer();
-  await dialog.getByTestId('photo-file').locator('input[type=file]').setInputFiles({ name: 'main-curtain.png', mimeType: 'image/png', buffer: png });
+  await dialog.getByTestId('photo-file').setInputFiles({ name: 'main-curtain.png', mimeType: 'image/png', buffer: png });
   await dialog.getByRole('button', { name: 'Upload the photo' }).click();
   await expect(dialog.getByRole('button', { name: /^Open photo:/ })).toHaveCount(1);
   await dialog.getByRole('button', { name: 'Close' }).first().click();
@@ -102,7 +107,7 @@ test('from a first run, the director sets up the venue and its schedule, and a r
   // 5. Ten more by CSV: previewed, then confirmed.
   await page.getByTestId('import-csv').click();
   const csvDialog = page.getByRole('dialog', { name: 'Import a schedule CSV' });
-  await csvDialog.getByTestId('csv-file').locator('input[type=file]').setInputFiles({ name: 'ashgrove.csv', mimeType: 'text/csv', buffer: Buffer.from(tenLineSetsCsv()) });
+  await csvDialog.getByTestId('csv-file').setInputFiles({ name: 'ashgrove.csv', mimeType: 'text/csv', buffer: Buffer.from(tenLineSetsCsv()) });
   await expect(csvDialog.getByTestId('csv-preview')).toContainText('10 line sets to add');
   await csvDialog.getByTestId('csv-confirm').click();
   await expect(page.getByTestId('line-set-item-11')).toBeVisible();

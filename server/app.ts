@@ -37,6 +37,7 @@ import { ScheduleEditor } from './features/schedule/schedule-edit.service';
 import { ScheduleCsv } from './features/schedule/schedule-csv';
 import { FirstRun } from './features/setup/setup.service';
 import { setupRoutes } from './features/setup/setup.routes';
+import { VenueCreator } from './features/venue/venue-creator';
 import { createIo, endPersonSignIns, endSignIn, venueChosen, type RailcallServer } from './realtime/io';
 import { MailQueue } from './features/mail/mail-queue';
 import { Mailbox } from './features/mail/mailbox';
@@ -96,6 +97,7 @@ export function createApp({ config, db, logger, redis, setupCode = null }: AppDe
     ...setupRoutes(firstRun, people),
     ...authRoutes({
       people,
+      venues: new VenueCreator(db),
       passport,
       throttles: signInThrottles(config),
       resetThrottles: resetThrottles(config),

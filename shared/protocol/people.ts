@@ -64,6 +64,13 @@ export const chooseVenueSchema = z.object({
 });
 export type ChooseVenueInput = z.infer<typeof chooseVenueSchema>;
 
+/** `POST /api/venues`: a technical director opens another venue (a second theatre); they become its technical director. */
+export const newVenueSchema = z.object({
+  name: z.string().trim().min(1, 'Enter the venue name').max(120),
+  units: z.enum(UNIT_SYSTEMS, 'Choose imperial or metric'),
+});
+export type NewVenueInput = z.infer<typeof newVenueSchema>;
+
 /** Changing a person's name and e-mail address (crew administration). */
 export const editPersonSchema = z.object({
   name: z.string().trim().min(1, 'Enter a name').max(120),

@@ -146,9 +146,11 @@ describe('API access by role and venue', () => {
     let otherEmails: Record<Role, string>;
     let other: Agent;
     let otherAdminId: number;
+    let otherVenueId: number;
     beforeAll(async () => {
-      const { emails } = await addVenueWithPeople(t.database.owner, 'Quillfield Hall', ROLES);
+      const { emails, venueId } = await addVenueWithPeople(t.database.owner, 'Quillfield Hall', ROLES);
       otherEmails = emails;
+      otherVenueId = venueId;
       for (const role of ROLES) others[role] = await signedIn(t.url, emails[role]);
       other = others.admin;
       const [row] = await t.database.owner.query('SELECT id FROM person WHERE email = ?', [emails.admin]);
@@ -181,7 +183,8 @@ describe('API access by role and venue', () => {
     it('cannot change roles of a person at another venue, either way', async () => {
       expect((await other.put(`/api/people/${deckPersonId}/roles`).send({ roles: ['admin'] })).status).toBe(404);
       expect((await agents.admin.put(`/api/people/${otherAdminId}/roles`).send({ roles: [] })).status).toBe(404);
-      const [row] = await t.database.owner.query('SELECT COUNT(*) AS n FROM venue_role WHERE person_id = ?', [otherAdminId]);
+      // Their role at Quillfield Hall is untouched (the venues they opened from the table's POST /venues row aside).
+      const [row] = await t.database.owner.query('SELECT COUNT(*) AS n FROM venue_role WHERE person_id = ? AND venue_id = ?', [otherAdminId, otherVenueId]);
       expect(Number(row.n)).toBe(1);
     });
 

@@ -2,6 +2,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import request from 'supertest';
 import { io as connect, type Socket } from 'socket.io-client';
 import { DEMO_PASSWORD } from '@shared/protocol/http';
+import { DEFAULT_SETTINGS } from '@shared/protocol/schedule';
 import { startTestApp, type TestApp } from '../support/app';
 import { addVenueWithPeople, cookieOf, signedIn } from '../support/people';
 
@@ -115,6 +116,46 @@ describe('a person with roles at more than one venue', () => {
       expect((await elsewhere.emitWithAck('session:watch', { sessionId: larkspurSessionId })).ok).toBe(true);
       tab.close();
       elsewhere.close();
+    });
+  });
+
+  describe('a technical director opening another venue', () => {
+    it('creates it with the default settings, makes them its technical director, and acts on it at once', async () => {
+      const td = await signedIn(t.url, 'td@larkspur.example');
+      const res = await td.post('/api/venues').send({ name: '  Larkspur Studio ', units: 'metric' });
+      expect(res.status, JSON.stringify(res.body)).toBe(201);
+      const studioId = res.body.venue.id as number;
+      expect(res.body).toMatchObject({ venue: { id: studioId, name: 'Larkspur Studio', units: 'metric' }, roles: ['admin'] });
+      expect(res.body.venues.map((v: { name: string; roles: string[] }) => `${v.name}: ${v.roles.join(',')}`)).toEqual(['Larkspur Playhouse: admin', 'Larkspur Studio: admin']);
+      // The new venue is empty and acted on: settings from the defaults, no schedule, only its director.
+      const venue = (await td.get('/api/venue')).body.venue;
+      expect(venue).toMatchObject({ id: studioId, name: 'Larkspur Studio', units: 'metric', settings: DEFAULT_SETTINGS });
+      expect((await td.get('/api/schedule')).body.lineSets).toEqual([]);
+      expect((await td.get('/api/people')).body.people.map((p: { email: string }) => p.email)).toEqual(['td@larkspur.example']);
+      const history = (await td.get('/api/venue/history')).body.entries;
+      expect(history).toHaveLength(1);
+      expect(history[0]).toMatchObject({ subject: 'venue', action: 'create', subjectId: studioId, personName: 'Morgan Vale', changes: { name: [null, 'Larkspur Studio'] } });
+      // Back to the Playhouse through the menu's switch: its data again, untouched.
+      expect((await td.put('/api/me/venue').send({ venueId: larkspurId })).body.venue.id).toBe(larkspurId);
+      expect((await td.get('/api/schedule')).body.lineSets.length).toBeGreaterThan(0);
+      // The sign-in on another device stays at the Playhouse; the new role is there after its next request.
+      const phone = await signedIn(t.url, 'td@larkspur.example');
+      expect((await phone.get('/api/me')).body.venues).toHaveLength(2);
+    });
+
+    it('is for technical directors only, and refuses bad input with field errors, writing nothing', async () => {
+      const count = async () => Number((await t.database.owner.query('SELECT COUNT(*) AS n FROM venue'))[0].n);
+      const venues = await count();
+      const rail = await signedIn(t.url, 'rail@larkspur.example');
+      expect((await rail.post('/api/venues').send({ name: 'Rail Annexe', units: 'imperial' })).status).toBe(403);
+      expect((await request(t.url).post('/api/venues').send({ name: 'Nobody Hall', units: 'imperial' })).status).toBe(401);
+      const td = await signedIn(t.url, 'td@larkspur.example');
+      const bad = await td.post('/api/venues').send({ name: ' ', units: 'cubits' });
+      expect(bad.status).toBe(400);
+      expect(Object.keys(bad.body.error.fields).sort()).toEqual(['name', 'units']);
+      expect(bad.body.error.fields.name).toEqual(['Enter the venue name']);
+      expect(await count()).toBe(venues);
+      expect((await td.get('/api/me')).body.venue.id).toBe(larkspurId);
     });
   });
 });

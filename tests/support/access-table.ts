@@ -87,6 +87,16 @@ export const ACCESS_TABLE: Record<string, AccessCase> = {
     allowed: EVERYONE, okStatus: 200, otherVenue: 404,
     send: (a, c) => a.put('/api/me/venue').send({ venueId: c.venueId }),
   },
+  'post /venues': {
+    // A new venue of one's own, from any venue; the agent then goes back to where it was, for the next rows.
+    allowed: ['admin'], okStatus: 201, otherVenue: 201,
+    async send(a) {
+      const was = (await a.get('/api/me')).body?.venue?.id as number | undefined;
+      const res = await a.post('/api/venues').send({ name: `Second stage ${unique()}`, units: 'metric' });
+      if (res.status === 201 && was) await a.put('/api/me/venue').send({ venueId: was });
+      return res;
+    },
+  },
   'get /people': { allowed: ['admin'], okStatus: 200, otherVenue: 200, send: (a) => a.get('/api/people') },
   'post /people': {
     allowed: ['admin'], okStatus: 201, otherVenue: 201,

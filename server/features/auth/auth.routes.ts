@@ -1,15 +1,17 @@
 import type { Request } from 'express';
 import type { PassportStatic } from 'passport';
-import { acceptInviteSchema, chooseVenueSchema, passwordResetRequestSchema, resetPasswordSchema, signInSchema, type Me } from '@shared/protocol/people';
+import { acceptInviteSchema, chooseVenueSchema, newVenueSchema, passwordResetRequestSchema, resetPasswordSchema, signInSchema, type Me } from '@shared/protocol/people';
 import { HttpError } from '../../middleware/http-error';
 import { SESSION_COOKIE } from '../../middleware/session';
 import { route, type RouteSpec } from '../../middleware/routes';
 import type { PeopleService, SignedInUser } from '../people/people.service';
 import type { SignInRefusal } from './passport';
+import type { VenueCreator } from '../venue/venue-creator';
 import type { RequestHandler } from 'express';
 
 export interface AuthRouteDeps {
   people: PeopleService;
+  venues: VenueCreator;
   passport: PassportStatic;
   throttles: RequestHandler[];
   resetThrottles: RequestHandler[];
@@ -132,19 +134,33 @@ export function authRoutes(deps: AuthRouteDeps): RouteSpec[] {
       path: '/me/venue',
       access: { roles: 'any' },
       body: chooseVenueSchema,
+      handler: ({ req, user, body }) => actOnVenue(req, user.id, body.venueId),
+    }),
+    route({
+      method: 'post',
+      path: '/venues',
+      // A technical director opens another venue (a company's second theatre) and acts on it at once.
+      access: { roles: ['admin'] },
+      status: 201,
+      body: newVenueSchema,
       async handler({ req, user, body }) {
-        // Checked against the roles held now: only a venue where the person works can be chosen.
-        const chosen = await deps.people.loadUser(user.id, body.venueId);
-        if (!chosen || chosen.venueId !== body.venueId) {
-          throw new HttpError('not-found', 'You hold no role at that venue.', { venueId: ['You hold no role at that venue'] });
-        }
-        req.session.venueId = chosen.venueId;
-        await new Promise<void>((resolve, reject) => req.session.save((e) => (e ? reject(e) : resolve())));
-        req.user = chosen;
-        const me = await deps.people.me(chosen);
-        deps.onVenueChosen(req.sessionID, me);
-        return me;
+        const venueId = await deps.venues.create(user, body);
+        return actOnVenue(req, user.id, venueId);
       },
     }),
   ];
+
+  /** Keeps the chosen venue in the sign-in, checked against the roles the person holds now. */
+  async function actOnVenue(req: Request, personId: number, venueId: number): Promise<Me> {
+    const chosen = await deps.people.loadUser(personId, venueId);
+    if (!chosen || chosen.venueId !== venueId) {
+      throw new HttpError('not-found', 'You hold no role at that venue.', { venueId: ['You hold no role at that venue'] });
+    }
+    req.session.venueId = chosen.venueId;
+    await new Promise<void>((resolve, reject) => req.session.save((e) => (e ? reject(e) : resolve())));
+    req.user = chosen;
+    const me = await deps.people.me(chosen);
+    deps.onVenueChosen(req.sessionID, me);
+    return me;
+  }
 }
