@@ -47,7 +47,7 @@ async function newPhone(browser: Browser, who: string): Promise<{ page: Page; er
   return { page, errors };
 }
 
-test('from a first run, the director sets up the venue and its schedule, and a rail operator plans a session on a new set', async ({ browser }) => {
+test('from a first run, the director sets up the venue and its schedule, a rail operator plans a session on a new set, and the director opens a second venue', async ({ browser }) => {
   test.setTimeout(180_000);
   const director = await newPhone(browser, 'director');
   const page = director.page;
@@ -106,7 +106,7 @@ test('from a first run, the director sets up the venue and its schedule, and a r
 
   // 5. Ten more by CSV: previewed, then confirmed.
   await page.getByTestId('import-csv').click();
-  const csvDialog = page.getByRole('dialog', { name: 'Import a schedule CSV' });
+  const csvDialog = page.getByRole('dialog').filter({ hasText: 'Import a schedule CSV' });
   await csvDialog.getByTestId('csv-file').setInputFiles({ name: 'ashgrove.csv', mimeType: 'text/csv', buffer: Buffer.from(tenLineSetsCsv()) });
   await expect(csvDialog.getByTestId('csv-preview')).toContainText('10 line sets to add');
   await csvDialog.getByTestId('csv-confirm').click();
@@ -138,10 +138,29 @@ test('from a first run, the director sets up the venue and its schedule, and a r
   await rail.page.getByLabel('Session title').fill('Border 5 re-hang');
   await rail.page.getByRole('checkbox', { name: /^Line set 5,/ }).click();
   const plan = rail.page.getByTestId('plan-line-set-5');
-  await expect(plan).toBeVisible();
+  await plan.getByRole('checkbox', { name: 'Take off Black border 5' }).click();
+  await expect(plan.getByTestId('plan-steps').locator('li')).not.toHaveCount(0);
+  await expect(rail.page.getByTestId('start-session')).toBeEnabled();
   await rail.page.getByTestId('start-session').click();
   await expect(rail.page).toHaveURL(/\/sessions\/\d+$/);
   await expect(rail.page.getByText('Border 5 re-hang').first()).toBeVisible();
+
+  // 8. The director opens a second theatre from the menu, works there, and switches back.
+  await page.getByRole('button', { name: 'Menu' }).click();
+  await page.getByTestId('menu-open-venue').click();
+  const opening = page.getByRole('dialog').filter({ hasText: 'Open another venue' });
+  await opening.getByLabel('Venue name').fill('Ashgrove Studio');
+  await opening.getByRole('button', { name: 'Open the venue' }).click();
+  await expect(page.getByText('Now working at Ashgrove Studio.')).toBeVisible();
+  await page.goto('/schedule');
+  await expect(page.getByText('Line set schedule').first()).toBeVisible();
+  await expect(page.locator('[data-testid^="line-set-item-"]')).toHaveCount(0);
+  await page.getByRole('button', { name: 'Menu' }).click();
+  const menu = page.getByRole('navigation', { name: 'Menu' });
+  await menu.getByText('Ashgrove Repertory', { exact: true }).click();
+  await expect(page.getByText('Now working at Ashgrove Repertory.')).toBeVisible();
+  await page.goto('/schedule');
+  await expect(page.locator('[data-testid^="line-set-item-"]')).toHaveCount(11);
 
   expect([...director.errors, ...rail.errors]).toEqual([]);
 });

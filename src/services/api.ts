@@ -1,5 +1,5 @@
 import type { PhotoView } from '@shared/protocol/photos';
-import type { AddPersonInput, AddPersonResult, EditPersonInput, FirstRunInput, Me, SetupStatus, PersonRow, SignInInput } from '@shared/protocol/people';
+import type { AddPersonInput, AddPersonResult, EditPersonInput, FirstRunInput, Me, NewVenueInput, SetupStatus, PersonRow, SignInInput } from '@shared/protocol/people';
 import type { MailboxMessage, MailView, RecipientRow, ReportMailInput } from '@shared/protocol/mail';
 import type { FinishPracticeInput, PracticeDetail, PracticeStart, PracticeSummary, StartPracticeInput } from '@shared/protocol/practice';
 import type { Role } from '@shared/protocol/roles';
@@ -49,6 +49,8 @@ export const completeSetup = (input: FirstRunInput) => http.post<Me>('/api/setup
 
 /** Act on another venue where the person holds a role; the server checks it and answers the new Me. */
 export const chooseVenue = (venueId: number) => http.put<Me>('/api/me/venue', { venueId });
+/** Opens another venue with the person as its technical director; the sign-in acts on it from now on. */
+export const openVenue = (input: NewVenueInput) => http.post<Me>('/api/venues', input);
 
 export const requestPasswordReset = (email: string) => http.post<{ message: string }>('/api/auth/password-reset', { email });
 export const resetPassword = (token: string, password: string) => http.post<Me>('/api/auth/reset-password', { token, password });

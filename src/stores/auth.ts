@@ -1,6 +1,6 @@
 import { defineStore } from 'pinia';
 import { computed, ref } from 'vue';
-import type { Me, SignInInput } from '@shared/protocol/people';
+import type { Me, NewVenueInput, SignInInput } from '@shared/protocol/people';
 import type { Role } from '@shared/protocol/roles';
 import * as api from '@/services/api';
 import { ApiFailure } from '@/services/http';
@@ -70,6 +70,13 @@ export const useAuthStore = defineStore('auth', () => {
     return person;
   }
 
+  /** Opens another venue, directed by this person, and switches to it. */
+  async function openVenue(input: NewVenueInput): Promise<Me> {
+    const person = await api.openVenue(input);
+    become(person);
+    return person;
+  }
+
   /** Switches the venue this sign-in acts on (every tab of it follows). */
   async function chooseVenue(venueId: number): Promise<Me> {
     const person = await api.chooseVenue(venueId);
@@ -121,5 +128,5 @@ export const useAuthStore = defineStore('auth', () => {
     if (!socket.active && me.value) void load().catch(() => undefined);
   });
 
-  return { me, fromCache, loaded, signedIn, timeZone, roles, homeRoute, roleHomes, hasRole, load, become, signIn, acceptInvite, chooseVenue, resetPassword, signOut };
+  return { me, fromCache, loaded, signedIn, timeZone, roles, homeRoute, roleHomes, hasRole, load, become, signIn, acceptInvite, chooseVenue, openVenue, resetPassword, signOut };
 });
