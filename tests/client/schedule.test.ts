@@ -69,7 +69,7 @@ beforeEach(() => {
   pinia = createPinia();
   setActivePinia(pinia);
   // The technical director: may edit the schedule.
-  useAuthStore().me = { id: 1, name: 'Morgan Vale', email: 'td@larkspur.example', venue: { id: 1, name: venue.name, units: 'imperial' }, roles: ['admin'], venues: [] };
+  useAuthStore().me = { id: 1, name: 'Morgan Vale', email: 'td@larkspur.example', venue: { id: 1, name: venue.name, units: 'imperial', timeZone: 'UTC' }, roles: ['admin'], venues: [] };
   answers.clear();
   sent.length = 0;
   vi.stubGlobal('fetch', fakeFetch);

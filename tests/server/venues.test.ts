@@ -37,8 +37,8 @@ describe('a person with roles at more than one venue', () => {
     expect(me.venue.id).toBe(larkspurId);
     expect(me.roles).toEqual(['rail']);
     expect(me.venues).toEqual([
-      { id: larkspurId, name: 'Larkspur Playhouse', units: 'imperial', roles: ['rail'] },
-      { id: quillId, name: 'Quillfield Hall', units: 'metric', roles: ['deck'] },
+      { id: larkspurId, name: 'Larkspur Playhouse', units: 'imperial', timeZone: 'UTC', roles: ['rail'] },
+      { id: quillId, name: 'Quillfield Hall', units: 'metric', timeZone: 'UTC', roles: ['deck'] },
     ]);
   });
 
@@ -129,7 +129,7 @@ describe('a person with roles at more than one venue', () => {
       expect(res.body.venues.map((v: { name: string; roles: string[] }) => `${v.name}: ${v.roles.join(',')}`)).toEqual(['Larkspur Playhouse: admin', 'Larkspur Studio: admin']);
       // The new venue is empty and acted on: settings from the defaults, no schedule, only its director.
       const venue = (await td.get('/api/venue')).body.venue;
-      expect(venue).toMatchObject({ id: studioId, name: 'Larkspur Studio', units: 'metric', settings: DEFAULT_SETTINGS });
+      expect(venue).toMatchObject({ id: studioId, name: 'Larkspur Studio', units: 'metric', settings: { ...DEFAULT_SETTINGS, timeZone: expect.any(String) } });
       expect((await td.get('/api/schedule')).body.lineSets).toEqual([]);
       expect((await td.get('/api/people')).body.people.map((p: { email: string }) => p.email)).toEqual(['td@larkspur.example']);
       const history = (await td.get('/api/venue/history')).body.entries;
