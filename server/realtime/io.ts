@@ -56,9 +56,10 @@ async function followSignIn(socket: RailcallSocket, loadUser: LoadUser): Promise
       return false;
     }
     if (fresh.venueId !== socket.data.user.venueId) {
-      // Nothing of the venue left behind keeps streaming to this socket.
+      // Nothing of the venue left behind keeps streaming to this socket; the chosen venue's news does.
       const keep = ownRooms(socket);
       for (const room of socket.rooms) if (!keep.has(room)) void socket.leave(room);
+      void socket.join(venueRoom(fresh.venueId));
     }
     socket.data.user = fresh;
   }
@@ -75,6 +76,8 @@ function onlyForHandshake(middleware: RequestHandler) {
 
 export const sessionRoom = (sessionId: string) => `sid:${sessionId}`;
 export const personRoom = (personId: number) => `person:${personId}`;
+/** Every socket signed in at a venue (acting on it now): venue-wide news such as sessions opening and ending. */
+export const venueRoom = (venueId: number) => `venue:${venueId}`;
 
 export interface IoOptions {
   /** A socket closes when its sign-in reaches this age. */
@@ -128,7 +131,7 @@ export function createIo(httpServer: HttpServer, session: RequestHandler, passpo
     const req = socket.request as EngineRequest;
     socket.data.user = req.user as SignedInUser;
     socket.data.sessionId = req.sessionID as string;
-    void socket.join([sessionRoom(socket.data.sessionId), personRoom(socket.data.user.id)]);
+    void socket.join([sessionRoom(socket.data.sessionId), personRoom(socket.data.user.id), venueRoom(socket.data.user.venueId)]);
     // A phone that sends too fast is told to slow down; its connection stays open for the retry.
     socket.use(([, ...args], next) => {
       limiter.consume(socket.id).then(() => next(), () => {

@@ -18,6 +18,18 @@ export interface ServerToClientEvents extends SessionServerToClientEvents {
    * again, which checks the new roles, and shows `reason` if that is refused.
    */
   'session:dropped': (payload: { sessionId: number; reason: string }) => void;
+  /**
+   * To everyone signed in at the venue (the server puts each socket in its venue's room): a session
+   * opened, began, finished or ended. Home screens ask for the running sessions again (the list itself
+   * comes over HTTP, checked like any request).
+   */
+  'venue:sessions-changed': (payload: VenueSessionsChanged) => void;
+}
+
+/** What changed in a venue's list of running sessions. */
+export interface VenueSessionsChanged {
+  sessionId: number;
+  change: 'opened' | 'began' | 'finished' | 'ended';
 }
 
 export type ClientToServerEvents = SessionClientToServerEvents;

@@ -1,7 +1,8 @@
 import { describeEntry, sessionActPayloadSchema, sessionUnwatchPayloadSchema, type SessionActAnswer, sessionWatchPayloadSchema, type LogEntry, type SessionState, type SessionWatchResult } from '@shared/protocol/session';
 import type { Ack, ApiError } from '@shared/protocol/ack';
 import { HttpError, unavailableFrom } from '../../middleware/http-error';
-import { personRoom, type RailcallServer, type SocketFeature } from '../../realtime/io';
+import { personRoom, venueRoom, type RailcallServer, type SocketFeature } from '../../realtime/io';
+import type { VenueSessionsChanged } from '@shared/protocol/events';
 import type { Logger } from '../../logger';
 import { parseInput } from '../../middleware/validate';
 import type { PeopleService } from '../people/people.service';
@@ -89,8 +90,14 @@ export function sessionSocketFeature(sessions: SessionsService, presence: Presen
   };
 }
 
+/** The log entries that change a venue's list of running sessions (its phase words: gathering, loading). */
+const LIST_CHANGES: Record<string, VenueSessionsChanged['change']> = { 'session-opened': 'opened', began: 'began', finished: 'finished', ended: 'ended' };
+
 /** After every commit: the new entries and state to the room, and alerts to whoever must look up. */
-export function broadcastCommitted(io: RailcallServer, c: { sessionId: number; entries: LogEntry[]; state: SessionState }): void {
+export function broadcastCommitted(io: RailcallServer, c: { sessionId: number; venueId: number; entries: LogEntry[]; state: SessionState }): void {
+  // Every home screen at the venue refreshes its list at once (only ids go out; the list is fetched over HTTP).
+  const change = c.entries.map((e) => LIST_CHANGES[e.kind]).filter(Boolean).at(-1);
+  if (change) io.to(venueRoom(c.venueId)).emit('venue:sessions-changed', { sessionId: c.sessionId, change });
   io.to(sessionRoom(c.sessionId)).emit('session:entries', { sessionId: c.sessionId, entries: c.entries, state: c.state });
   for (const entry of c.entries) {
     const text = describeEntry(entry, c.state);
@@ -131,8 +138,16 @@ export async function stopWatching(io: RailcallServer, personId: number, people:
     ? 'Your roles at this venue changed. Railcall opens the session again with your new roles.'
     : 'You no longer hold a role at this venue, so this phone cannot follow the session any more.';
   const sockets = await io.in(personRoom(personId)).fetchSockets();
+  const stillAt = new Map<number, boolean>();
   for (const s of sockets) {
     for (const room of s.rooms) {
+      if (room.startsWith('venue:')) {
+        // A venue where the person holds no role any more sends them no more news.
+        const venueId = Number(room.slice('venue:'.length));
+        if (!stillAt.has(venueId)) stillAt.set(venueId, (await people.loadUser(personId, venueId))?.venueId === venueId);
+        if (!stillAt.get(venueId)) s.leave(room);
+        continue;
+      }
       if (!room.startsWith('loading:')) continue;
       s.leave(room);
       s.emit('session:dropped', { sessionId: Number(room.slice('loading:'.length)), reason });
