@@ -7,7 +7,7 @@ import { join } from 'node:path';
  * lane is the exception: the real server process (server/index.ts) on an empty database without the
  * demo, its console written to FIRST_RUN_LOG, where the spec reads the setup code it printed.
  */
-export const LANES = ['sign-in', 'session', 'offline', 'a11y', 'practice', 'phone-app', 'spoken-calls', 'record', 'mail', 'screens-dark', 'screens-light', 'schedule', 'planner-slack', 'sign-in-edges', 'time-zone', 'first-run'] as const;
+export const LANES = ['sign-in', 'session', 'offline', 'a11y', 'practice', 'phone-app', 'spoken-calls', 'record', 'mail', 'screens-dark', 'screens-light', 'schedule', 'planner-slack', 'sign-in-edges', 'time-zone', 'first-run', 'crew-calls'] as const;
 export type Lane = (typeof LANES)[number];
 
 export const E2E_BASE_PORT = Number(process.env.RAILCALL_E2E_PORT ?? 4310);

@@ -65,6 +65,7 @@ export function actionOfEntry(entry: LogEntry): AnyAction | null {
         lineSetId: entry.lineSetId ?? undefined,
       };
     case 'hold-called': return { type: 'call-hold', reason: text(d.reason) };
+    case 'hold-reason-given': return { type: 'give-hold-reason', reason: String(d.reason ?? '') };
     case 'hold-acknowledged': return { type: 'ack-hold' };
     case 'hold-released': return { type: 'release-hold' };
     case 'note': return { type: 'note', text: String(d.text ?? '') };

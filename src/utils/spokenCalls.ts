@@ -51,6 +51,10 @@ export function spokenWords(entry: SpeakableEntry, role: SessionRole | null): st
       const reason = typeof entry.details.reason === 'string' && entry.details.reason.trim() ? `. ${entry.details.reason.trim()}` : '';
       return `Hold, hold, hold${reason}`;
     }
+    case 'hold-reason-given': {
+      const reason = typeof entry.details.reason === 'string' ? entry.details.reason.trim() : '';
+      return reason ? `Hold: ${reason}` : null;
+    }
     case 'hold-released':
       return 'Hold released';
     case 'finished':

@@ -87,6 +87,8 @@ export function buildReport(src: ReportSource): SessionReport {
   for (const e of src.entries) {
     if (e.kind === 'hold-called') {
       holds.push({ calledAt: formatZonedStamp(e.serverTimeMs, timeZone), byName: e.personName, reason: (e.details.reason as string | null) ?? null, releasedAt: null, heldForS: null });
+    } else if (e.kind === 'hold-reason-given' && holds.length) {
+      holds[holds.length - 1].reason = String(e.details.reason ?? '') || null;
     } else if (e.kind === 'hold-released' && holds.length) {
       const h = holds[holds.length - 1];
       h.releasedAt = formatZonedStamp(e.serverTimeMs, timeZone);

@@ -11,7 +11,7 @@
  * while the rail is clear for loading), and its effect. `decide` applies the checks every action
  * shares, in this order, then the rule's own:
  *   1. the session has finished → refused;
- *   2. a hold is on → refused unless it is acknowledging or releasing it, or the lead ending the session;
+ *   2. a hold is on → refused unless it is acknowledging, explaining or releasing it, or the lead ending the session;
  *   3. the person has not joined → forbidden (except `join`);
  *   4. the person's role does not fit (`who`) or the venue no longer gives them that role → forbidden;
  *   5. a rail-side action while the rail is clear → refused;
@@ -41,7 +41,7 @@ export type { AnyAction, Decision, LogDraft, RefusalCode } from './rules/common'
 export const RULES: RuleTable = { ...GATHERING_RULES, ...MOVE_RULES, ...LOADING_RULES, ...TESTING_RULES, ...ANYTIME_RULES };
 
 /** Actions accepted while a hold is on. */
-const DURING_HOLD = new Set<AnyAction['type']>(['ack-hold', 'release-hold', 'end']);
+const DURING_HOLD = new Set<AnyAction['type']>(['ack-hold', 'give-hold-reason', 'release-hold', 'end']);
 
 /** The checks every action shares (see the top of this file), before its own rule. */
 function sharedChecks(state: SessionState, action: AnyAction, actor: Actor, me: Participant | undefined): Refusal | null {

@@ -9,6 +9,19 @@ import { sessionRoleSchema } from '../roles';
 /** Plain text a person typed: trimmed, never empty, bounded. */
 const said = (maxChars: number) => z.string().trim().min(1, 'Write a few words').max(maxChars);
 
+/**
+ * Reasons a hold is called often enough to be one tap each (common practice on a fly floor); any other
+ * reason is typed. HOLD itself never waits for a reason: it stops everything at the first tap.
+ */
+export const QUICK_HOLD_REASONS = [
+  'Someone under the gallery',
+  'Someone at the rail',
+  'Line set moving',
+  'Brick not seated in the arbor',
+  'Lost sight of the batten',
+  'Call not heard',
+] as const;
+
 /** Longest free text on a note. */
 export const NOTE_MAX_CHARS = 1000;
 /** Longest reason (hold, short crew, ending, test note). */
@@ -86,6 +99,8 @@ export const sessionActionSchema = z.discriminatedUnion('type', [
     lineSetId: lineSetIdSchema.optional(),
   }),
   z.object({ type: z.literal('call-hold'), reason: said(REASON_MAX_CHARS).optional() }),
+  /** The one who called the hold says why, after the tap that stopped everything (a quick choice, then words if wanted). */
+  z.object({ type: z.literal('give-hold-reason'), reason: said(REASON_MAX_CHARS) }),
   z.object({ type: z.literal('ack-hold') }),
   z.object({ type: z.literal('release-hold') }),
   z.object({ type: z.literal('note'), text: said(NOTE_MAX_CHARS) }),

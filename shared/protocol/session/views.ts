@@ -49,6 +49,8 @@ function probe(type: ActionType, state: SessionState, me: Participant): SessionA
     }
     case 'call-hold':
       return { type };
+    case 'give-hold-reason':
+      return { type, reason: 'probe' };
     case 'note':
       return { type, text: 'probe' };
     case 'end':
@@ -120,7 +122,7 @@ export interface NextStep {
   stepIndex?: number;
 }
 
-const SIDE_ACTIONS = new Set<ActionType>(['call-hold', 'note', 'leave', 'end', 'record-clear-for']);
+const SIDE_ACTIONS = new Set<ActionType>(['call-hold', 'give-hold-reason', 'note', 'leave', 'end', 'record-clear-for']);
 
 /** What this person should do now, for their role screen ("Pull 2 bricks for Drape A, then confirm."). */
 export function nextStepFor(state: SessionState, personId: number): NextStep {
@@ -201,6 +203,16 @@ export interface SilentPerson extends Named {
 }
 
 /**
+ * Everyone joined who has not yet acknowledged the hold that is on, for the rail's screen. The caller
+ * counts as acknowledged; the lead is not waited on (the lead releases the hold).
+ */
+export function holdNotAcknowledged(state: SessionState): Named[] {
+  if (!state.hold) return [];
+  const acked = new Set(state.hold.acks.map((a) => a.personId));
+  return state.participants.filter((p) => !acked.has(p.personId) && p.personId !== state.leadPersonId).map(named);
+}
+
+/**
  * The silent people whose "clear" this person (the lead) may record now, having heard it another way:
  * each asked of `decide`, so the rail screen offers exactly what the server accepts.
  */
@@ -260,6 +272,7 @@ const ACTION_WORDS: Record<ActionType, string> = {
   'record-test': 'record a test of balance',
   'plan-correction': 'work out a correction',
   'call-hold': 'call a hold',
+  'give-hold-reason': 'say why the hold was called',
   'ack-hold': 'acknowledge the hold',
   'release-hold': 'release the hold',
   note: 'add a note',
@@ -331,6 +344,8 @@ export function describeEntry(entry: DescribableEntry, state?: SessionState, uni
     }
     case 'hold-called':
       return `${who} called a hold${d.reason ? `: "${d.reason}"` : ''}.`;
+    case 'hold-reason-given':
+      return `${who} said why the hold was called: "${d.reason}".`;
     case 'hold-acknowledged':
       return `${who} acknowledged the hold.`;
     case 'hold-released':

@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
 import {
-  SYSTEM_ACTOR, TEST_RESULTS, activeLineSet, allowedActions, createSessionState, decide, nextWorkStepIndex, silentSince,
+  SYSTEM_ACTOR, TEST_RESULTS, activeLineSet, allowedActions, createSessionState, decide, nextWorkStepIndex, notYetClear, silentSince,
   type Actor, type AnyAction, type LineSetInput, type LogDraft, type LogEntry, type SessionState,
 } from '@shared/protocol/session';
 import { initialStateOf, replaySession } from '@shared/protocol/replay';
@@ -33,6 +33,12 @@ function build(type: AnyAction['type'], c: Command, state: SessionState, actor: 
     case 'record-test':
       return { type, result, estimateKg: result === 'balanced' ? undefined : c.estimateKg, tiedOff: result !== 'balanced' && c.estimateKg > (ls?.ropeLockLimitKg ?? 0), note: c.pick % 2 ? 'Felt light' : undefined };
     case 'call-hold': return { type, reason: c.pick % 2 ? 'Heads' : undefined };
+    case 'give-hold-reason': return { type, reason: state.hold?.reason === 'Under the gallery' ? 'Lost sight of the batten' : 'Under the gallery' };
+    case 'record-clear-for': {
+      const alerted = new Set(ls?.call?.alerts.map((a) => a.personId));
+      const silent = notYetClear(state).find((p) => alerted.has(p.personId));
+      return { type, personId: silent?.personId ?? 1 + (c.pick % 6), via: c.pick % 2 ? 'voice' : 'radio' };
+    }
     case 'note': return { type, text: `Note ${c.pick}` };
     case 'end': return { type, reason: 'Done for tonight' };
     case 're-alert': {

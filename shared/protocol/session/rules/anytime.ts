@@ -3,9 +3,9 @@
  */
 import { activeLineSet } from '../state';
 import { lineSetOutcome } from '../words';
-import { alreadyDone, lineSetRef, refuse, type RulesFor } from './common';
+import { alreadyDone, forbid, lineSetRef, refuse, type RulesFor } from './common';
 
-export const ANYTIME_RULES: RulesFor<'call-hold' | 'ack-hold' | 'release-hold' | 'note' | 'end'> = {
+export const ANYTIME_RULES: RulesFor<'call-hold' | 'give-hold-reason' | 'ack-hold' | 'release-hold' | 'note' | 'end'> = {
   'call-hold': {
     who: 'joined',
     atRail: false,
@@ -22,6 +22,25 @@ export const ANYTIME_RULES: RulesFor<'call-hold' | 'ack-hold' | 'release-hold' |
       return {
         ok: true,
         entries: [{ kind: 'hold-called', ...(ls ? { lineSetId: ls.id } : {}), details: { reason: state.hold.reason, ...(ls ? lineSetRef(ls) : {}) } }],
+      };
+    },
+  },
+
+  /** HOLD stops everything at one tap; its caller says why afterwards (and may say it again in more words). */
+  'give-hold-reason': {
+    who: 'joined',
+    atRail: false,
+    apply({ state, action, me }) {
+      if (!state.hold) return refuse('No hold is on.');
+      if (state.hold.byPersonId !== me.personId) return forbid(`Only ${state.hold.byName}, who called the hold, says why it was called.`);
+      if (!action.reason?.trim()) return refuse('Say in a few words why the hold was called.');
+      if (state.hold.reason === action.reason) return alreadyDone('That reason is already given.');
+      const before = state.hold.reason;
+      state.hold.reason = action.reason;
+      const ls = activeLineSet(state);
+      return {
+        ok: true,
+        entries: [{ kind: 'hold-reason-given', ...(ls ? { lineSetId: ls.id } : {}), details: { reason: action.reason, before, ...(ls ? lineSetRef(ls) : {}) } }],
       };
     },
   },

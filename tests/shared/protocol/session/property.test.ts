@@ -71,7 +71,7 @@ const commandArb: fc.Arbitrary<Command> = fc.record({
 const ALL_TYPES: AnyAction['type'][] = [
   'join', 'leave', 'begin', 'call-move', 'answer-clear', 'record-clear-for', 'confirm-locked', 'confirm-tie-off', 'call-clear-rail',
   'confirm-rail-clear', 'confirm-step', 'call-loading-complete', 'confirm-untie', 'record-test', 'plan-correction', 'call-hold',
-  'ack-hold', 'release-hold', 'note', 'end', 're-alert',
+  'give-hold-reason', 'ack-hold', 'release-hold', 'note', 'end', 're-alert',
 ];
 
 /** An action of this type, with parameters from the command (valid ones when guided). */
@@ -108,6 +108,11 @@ function build(type: AnyAction['type'], c: Command, state: SessionState, actor: 
     }
     case 'call-hold':
       return { type, reason: c.role % 2 ? 'Heads' : undefined };
+    case 'give-hold-reason': {
+      const reason = c.role % 2 ? 'Someone under the gallery' : 'Lost sight of the batten';
+      // Guided: a reason other than the one given (the same one again is already given).
+      return { type, reason: guided && state.hold?.reason === reason ? `${reason}, stage left` : reason };
+    }
     case 'note':
       return { type, text: 'Note' };
     case 'end':
@@ -183,7 +188,9 @@ describe('decide, under thousands of random actions from random people', () => {
           // (or a rail operator joining to release it).
           if (prev.hold) {
             const railToRelease = action.type === 'join' && action.role === 'rail' && prev.leadPersonId === null;
-            expect(['ack-hold', 'release-hold', 'end'].includes(action.type) || railToRelease).toBe(true);
+            expect(['ack-hold', 'give-hold-reason', 'release-hold', 'end'].includes(action.type) || railToRelease).toBe(true);
+            // Only the one who called it says why.
+            if (action.type === 'give-hold-reason') expect(actor.personId).toBe(prev.hold.byPersonId);
           }
           // Only the lead releases a hold, and nothing is done at the rail while it is clear.
           if (action.type === 'release-hold') expect(actor.personId).toBe(prev.leadPersonId);

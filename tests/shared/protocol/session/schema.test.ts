@@ -8,7 +8,7 @@ describe('sessionActionSchema', () => {
     expect(ACTION_TYPES).toEqual([
       'join', 'leave', 'begin', 'call-move', 'answer-clear', 'record-clear-for', 'confirm-locked', 'confirm-tie-off', 'call-clear-rail',
       'confirm-rail-clear', 'confirm-step', 'call-loading-complete', 'confirm-untie', 'record-test', 'plan-correction', 'call-hold',
-      'ack-hold', 'release-hold', 'note', 'end',
+      'give-hold-reason', 'ack-hold', 'release-hold', 'note', 'end',
     ]);
   });
 

@@ -108,7 +108,8 @@ describe('allowedActions and nextStepFor', () => {
     const s = new Session().toRailClear();
     s.do(robin, { type: 'call-hold' });
     expect(allowedActions(s.state, sam.personId)).toEqual(['ack-hold']);
-    expect(allowedActions(s.state, robin.personId)).toEqual([]);
+    // The one who called it may say why.
+    expect(allowedActions(s.state, robin.personId)).toEqual(['give-hold-reason']);
     expect(allowedActions(s.state, jo.personId)).toEqual(['ack-hold', 'release-hold', 'end']);
     expect(nextStepFor(s.state, sam.personId).text).toMatch(/Acknowledge it\.$/);
     expect(allowedActions(s.state, 99)).toEqual([]);
