@@ -28,6 +28,12 @@ function actionOf(type: SessionAction['type'], role: SessionRole, n: number, sta
     }
     case 'record-test': return n % 4 === 0 ? { type, result: 'arbor-heavy', estimateKg: 1 + (n % 5) } : { type, result: 'balanced' };
     case 'call-hold': return { type, reason: 'Someone under the gallery' };
+    case 'give-hold-reason': return { type, reason: n % 2 ? 'Someone under the gallery' : 'Lost sight of the batten' };
+    case 'record-clear-for': {
+      const ls = state.activeIndex === null ? null : state.lineSets[state.activeIndex];
+      const silent = ls?.call?.alerts.find((a) => !ls.call!.answers.some((x) => x.personId === a.personId));
+      return { type, personId: silent?.personId ?? state.participants[n % Math.max(1, state.participants.length)]?.personId ?? 1, via: 'voice' };
+    }
     case 'note': return { type, text: `Note ${n}` };
     case 'end': return { type, reason: 'Called off for the evening' };
     default: return { type } as SessionAction;
@@ -55,7 +61,7 @@ function checkOrder(entries: LogEntry[], state: SessionState): void {
   let stepsInPlay = corrections[0]?.fromStep ?? ls.steps.length;
   let held = false;
   for (const e of accepted) {
-    if (held) expect(['hold-acknowledged', 'hold-released', 'joined', 'left'], `${e.kind} during a hold`).toContain(e.kind);
+    if (held) expect(['hold-acknowledged', 'hold-reason-given', 'hold-released', 'joined', 'left'], `${e.kind} during a hold`).toContain(e.kind);
     if (e.kind === 'hold-called') held = true;
     if (e.kind === 'hold-released') held = false;
     if (e.kind === 'locked') expect(seen.has('move-called'), 'locked before the move was called').toBe(true);
