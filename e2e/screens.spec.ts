@@ -93,7 +93,14 @@ function walk(lane: Lane, theme: 'dark' | 'light') {
     expect.soft(await titleInput.inputValue(), 'default title').not.toMatch(/\d{1,2}[/.]\d{1,2}[/.]\d{2,4}/);
     await expectScreenSound(r, 'planner, empty', rail.errors);
     await titleInput.fill(TITLE);
+    // 36 sets on the demo: a search narrows the list; a picked set stays in it once the search is cleared.
+    const find = r.getByLabel('Find a line set: number, name or piece');
+    await find.fill('sea-mist');
+    await expect(r.getByRole('checkbox', { name: /^Line set 1,/ })).toBeHidden();
     await r.getByRole('checkbox', { name: /^Line set 7,/ }).click();
+    await find.fill('');
+    await expect(r.getByRole('checkbox', { name: /^Line set 1,/ })).toBeVisible();
+    await expect(r.getByRole('checkbox', { name: /^Line set 7,/ })).toBeChecked();
     const plan = r.getByTestId('plan-line-set-7');
     await plan.getByRole('checkbox', { name: 'Take off Sea-mist drape A' }).click();
     await plan.getByRole('checkbox', { name: 'Take off Sea-mist drape B' }).click();
