@@ -84,7 +84,8 @@ export class SessionsService {
             pieceNames: p.pieceNames,
             ...(p.input.arborCapacityKg !== undefined ? { arborCapacityKg: p.input.arborCapacityKg } : {}),
           })),
-          settings: { minCrew: venue.settings.minCrew, reAlertSeconds: venue.settings.reAlertSeconds },
+          // The venue's units go with the session: every sentence it writes (corrections, refusals, the log) uses them.
+          settings: { minCrew: venue.settings.minCrew, reAlertSeconds: venue.settings.reAlertSeconds, units: venue.units },
           // The bridge as the plan starts from; every brick step moves it, and corrections load from it.
           bridgeStock: { ...planned[0]?.input.bridgeStock },
         });

@@ -164,6 +164,11 @@ export const sessionSettingsSchema = z.object({
   minCrew: minCrewSchema,
   /** Seconds of silence after a move call before Railcall alerts a person again (venue setting). */
   reAlertSeconds: z.number().int().min(5).max(600),
+  /**
+   * The venue's units, for every sentence the session writes (corrections, refusals, the log).
+   * Sessions stored before it was kept have none and were written in pounds: see sessionUnits.
+   */
+  units: z.enum(['imperial', 'metric']).optional(),
 });
 export type SessionSettings = z.infer<typeof sessionSettingsSchema>;
 

@@ -2,7 +2,7 @@
  * The state of one live loading session: plain JSON, stored whole in one column and sent to phones.
  * Only `decide` (machine.ts) makes a new state from an old one.
  */
-import { applyStep, loadImbalanceKg, type BrickCounts, type BrickType, type LineSetLoad, type PlanStep, type StepKind } from '../../rigging';
+import { applyStep, formatMass, loadImbalanceKg, type BrickCounts, type BrickType, type LineSetLoad, type PlanStep, type StepKind, type Units } from '../../rigging';
 import type { Role, SessionRole } from '../roles';
 import { DEFAULT_SETTINGS, MAX_LINE_SETS, MAX_STEPS, sessionSettingsSchema, type ProxyClearVia, type SessionSettings, type TestResult } from './schema';
 
@@ -172,6 +172,11 @@ export const WORK_STEP_KINDS: readonly StepKind[] = ['remove-bricks', 'add-brick
 export const isWorkStep = (step: PlanStep): boolean => WORK_STEP_KINDS.includes(step.kind);
 export const isBrickStep = (step: PlanStep): boolean => step.kind === 'remove-bricks' || step.kind === 'add-bricks';
 
+/** The units a session's sentences use: the venue's, kept in its settings; pounds for sessions stored before that. */
+export function sessionUnits(state: { settings: Pick<SessionSettings, 'units'> }): Units {
+  return state.settings.units ?? 'imperial';
+}
+
 /** Floating-point slack when judging "arbor-heavy" after a step, in kg. */
 export const ARBOR_HEAVY_TOLERANCE_KG = 0.001;
 
@@ -214,7 +219,7 @@ export function createSessionState(input: CreateSessionInput): SessionState {
         const afterKg = loadImbalanceKg(load, ls.brickTypes);
         if (isWorkStep(step) && afterKg < -ARBOR_HEAVY_TOLERANCE_KG) {
           throw new SessionPlanError(
-            `${ls.name}: step ${i + 1} would leave the set ${Math.abs(afterKg).toFixed(1)} kg arbor-heavy.`,
+            `${ls.name}: step ${i + 1} would leave the set ${formatMass(Math.abs(afterKg), sessionUnits({ settings }))} arbor-heavy.`,
           );
         }
         if (isWorkStep(step) && Math.abs(afterKg) > ls.ropeLockLimitKg && !needsTieOff) {

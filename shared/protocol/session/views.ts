@@ -290,7 +290,9 @@ export type DescribableEntry = Omit<LogDraft, 'lineSetId' | 'stepIndex'> & {
  * One plain sentence for a log entry ("Jo Castellan called line set 7 in to the loading position.").
  * Line set names come from the entry's details, else from `state`, else the id.
  */
-export function describeEntry(entry: DescribableEntry, state?: SessionState, units?: Units): string {
+export function describeEntry(entry: DescribableEntry, state?: SessionState, unitsAsked?: Units): string {
+  // The venue's units as the session keeps them, unless the reader asks for others (a session stored before it kept them: kg).
+  const units = unitsAsked ?? state?.settings.units;
   const who = entry.role === 'system' ? 'Railcall' : (entry.personName ?? 'Someone');
   const d = entry.details as Record<string, any>;
   const lsName: string | undefined =

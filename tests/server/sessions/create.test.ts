@@ -2,6 +2,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { startTestApp, type TestApp } from '../../support/app';
 import { addVenueWithPeople, signedIn, type Agent } from '../../support/people';
 import { NOT_RAIL_LEAD_TEXT } from '@shared/protocol/sessions-api';
+import { describeEntry } from '@shared/protocol/session';
 
 const LB = 0.45359237;
 
@@ -102,5 +103,17 @@ describe('opening a session from the schedule', () => {
     const res = await outsider.post('/api/sessions').send({ title: 'Not ours', lineSets: [{ lineSetId: ids[8].id, remove: [], add: [] }] });
     expect(res.status).toBe(400);
     expect(res.body.error.message).toMatch(/No such line set at this venue/);
+  });
+
+  it('keeps the venue\'s units in the session, so a metric venue\'s sentences read kilograms', async () => {
+    await t.database.owner.query("UPDATE venue SET units = 'metric'");
+    const res = await rail.post('/api/sessions').send({ title: 'Metric', lineSets: [{ lineSetId: ids[35].id, remove: [], add: [{ name: 'Lamp', massKg: 40, positionM: null }] }] });
+    expect(res.status).toBe(201);
+    const [row] = await t.database.owner.query('SELECT state FROM loading_session WHERE id = ?', [res.body.session.id]);
+    const state = typeof row.state === 'string' ? JSON.parse(row.state) : row.state;
+    expect(state.settings.units).toBe('metric');
+    // A log sentence with a weight in it, read against that state, is in kilograms.
+    expect(describeEntry({ kind: 'step-confirmed', role: 'loader', personName: 'Sam', lineSetId: state.lineSets[0].id, details: { imbalanceKg: 4.5, text: 'loaded 4 bricks' } }, state))
+      .toBe('Sam loaded 4 bricks on Line set 35 (Spare pipe): now 4.5 kg pipe-heavy.');
   });
 });

@@ -4,7 +4,7 @@
  * A tested set is never tested again except after its correction.
  */
 import { correctionSteps, formatMass } from '../../../rigging';
-import { activeLineSet, isTestOnly } from '../state';
+import { activeLineSet, isTestOnly, sessionUnits } from '../state';
 import { balanceText, capital, lineSetDuty, lineSetLabel } from '../words';
 import { alreadyDone, finishIfComplete, first, isRefusal, lineSetRef, markDone, needActive, refuse, type LogDraft, type RulesFor } from './common';
 
@@ -23,7 +23,7 @@ export const TESTING_RULES: RulesFor<'record-test' | 'plan-correction'> = {
       if (ls.stage === 'tested') {
         // One test per loading: a second one only follows a correction (worked out from this test).
         const last = ls.tests.at(-1)!;
-        const found = last.result === 'balanced' ? 'balanced' : `${last.result} by ${formatMass(last.estimateKg ?? 0, 'imperial')} (${formatMass(last.estimateKg ?? 0, 'metric')})`;
+        const found = last.result === 'balanced' ? 'balanced' : `${last.result} by ${formatMass(last.estimateKg ?? 0, sessionUnits(state))}`;
         return alreadyDone(
           `${capital(lineSetLabel(ls.name))} has already been tested: ${found}.${ls.flagged ? ' Work out its correction first; the new test follows it.' : ''}`,
           { lineSetId: ls.id },
@@ -35,7 +35,7 @@ export const TESTING_RULES: RulesFor<'record-test' | 'plan-correction'> = {
         return refuse(first(lineSetDuty(state, ls)), { lineSetId: ls.id });
       }
       if (action.result !== 'balanced' && action.estimateKg === undefined) {
-        return refuse('Give an estimate in kg for a set that is out of balance.', { lineSetId: ls.id });
+        return refuse('Give how far out of balance the set is (the estimate) when it is not balanced.', { lineSetId: ls.id });
       }
       const wasFlagged = ls.flagged;
       const estimateKg = action.result === 'balanced' ? null : (action.estimateKg ?? null);
@@ -43,7 +43,7 @@ export const TESTING_RULES: RulesFor<'record-test' | 'plan-correction'> = {
       const beyondLock = estimateKg !== null && estimateKg > ls.ropeLockLimitKg;
       if (beyondLock && !action.tiedOff) {
         return refuse(
-          `That is more out of balance than the rope lock holds (${formatMass(ls.ropeLockLimitKg, 'imperial')}, ${formatMass(ls.ropeLockLimitKg, 'metric')}): tie ${lineSetLabel(ls.name)} off at the rail first, keep it attended, and record the test as tied off.`,
+          `That is more out of balance than the rope lock holds (${formatMass(ls.ropeLockLimitKg, sessionUnits(state))}): tie ${lineSetLabel(ls.name)} off at the rail first, keep it attended, and record the test as tied off.`,
           { lineSetId: ls.id },
         );
       }
@@ -106,7 +106,7 @@ export const TESTING_RULES: RulesFor<'record-test' | 'plan-correction'> = {
         ...(ls.arborCapacityKg !== undefined ? { arborCapacityKg: ls.arborCapacityKg } : {}),
         ropeLockLimitKg: ls.ropeLockLimitKg,
         tiedOff: ls.tiedOff,
-        units: 'imperial',
+        units: sessionUnits(state),
       });
       const error = r.warnings.find((w) => w.severity === 'error');
       if (error) return refuse(`${capital(lineSetLabel(ls.name))} cannot be corrected by Railcall: ${error.message}`, { lineSetId: ls.id });
@@ -130,7 +130,7 @@ export const TESTING_RULES: RulesFor<'record-test' | 'plan-correction'> = {
               ...lineSetRef(ls),
               measuredKg,
               computedKg: ls.imbalanceKg,
-              measuredText: balanceText(measuredKg),
+              measuredText: balanceText(measuredKg, sessionUnits(state)),
               steps: structuredClone(r.steps),
               fromStep,
               expectedKg: r.expectedKg,

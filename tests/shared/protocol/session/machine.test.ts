@@ -349,7 +349,7 @@ describe('after loading complete', () => {
 
   it('refuses an out-of-balance result without an estimate', () => {
     const s = toLoadingComplete(new Session());
-    expect(s.refused(jo, { type: 'record-test', result: 'pipe-heavy' }).reason).toMatch(/estimate in kg/);
+    expect(s.refused(jo, { type: 'record-test', result: 'pipe-heavy' }).reason).toBe('Give how far out of balance the set is (the estimate) when it is not balanced.');
   });
 
   it('keeps an out-of-balance set flagged until its correction is worked out, run with its own clear-the-rail call, and tested again', () => {
@@ -359,7 +359,7 @@ describe('after loading complete', () => {
     // A second test of a tested set is refused as already done: the new test follows a correction.
     expect(s.refused(jo, { type: 'record-test', result: 'balanced', lineSetId: 'ls-7' })).toMatchObject({
       code: 'already-done',
-      reason: 'Line set 7 has already been tested: pipe-heavy by 39.7 lb (18 kg). Work out its correction first; the new test follows it.',
+      reason: 'Line set 7 has already been tested: pipe-heavy by 39.7 lb. Work out its correction first; the new test follows it.',
     });
     // The next line set may be called with the flag still on; no correction while it is worked.
     s.do(jo, { type: 'call-move' });
@@ -399,6 +399,33 @@ describe('after loading complete', () => {
     expect(d.entries[1]).toMatchObject({ kind: 'finished', role: 'system' });
     expect(s.state).toMatchObject({ phase: 'finished', endedHow: 'complete' });
     expect(nextStepFor(s.state, jo.personId)).toEqual({ actions: [], text: 'The session has finished: every line set is tested in balance.' });
+  });
+
+  it('writes the correction, its refusals and the log in the venue\'s units: a metric venue reads kilograms', () => {
+    const s = toLoadingComplete(new Session([twoDrapeLineSet], { units: 'metric' }));
+    const test = s.do(jo, { type: 'record-test', result: 'pipe-heavy', estimateKg: 18 });
+    expect(describeEntry(test.entries[0], s.state)).toMatch(/pipe-heavy by about 18 kg/);
+    expect(s.refused(jo, { type: 'record-test', result: 'balanced', lineSetId: 'ls-7' }).reason)
+      .toBe('Line set 7 has already been tested: pipe-heavy by 18 kg. Work out its correction first; the new test follows it.');
+    const planned = s.do(jo, { type: 'plan-correction', lineSetId: 'ls-7' });
+    const details = planned.entries[0].details as { measuredText: string; steps: { text?: string }[] };
+    expect(details.measuredText).toBe('18 kg pipe-heavy');
+    const sentence = describeEntry(planned.entries[0], s.state);
+    expect(sentence).toMatch(/measured 18 kg pipe-heavy, computed balanced/);
+    expect(sentence).not.toMatch(/\blb\b/);
+    expect(JSON.stringify(details.steps)).not.toMatch(/\blb\b/);
+    // The same session at an imperial venue reads pounds.
+    const imperial = toLoadingComplete(new Session([twoDrapeLineSet], { units: 'imperial' }));
+    imperial.do(jo, { type: 'record-test', result: 'pipe-heavy', estimateKg: 18 });
+    expect(describeEntry(imperial.do(jo, { type: 'plan-correction', lineSetId: 'ls-7' }).entries[0], imperial.state)).toMatch(/measured 39.7 lb pipe-heavy/);
+  });
+
+  it('refuses a metric venue\'s correction Railcall cannot work out in kilograms', () => {
+    const s = toLoadingComplete(new Session([twoDrapeLineSet], { units: 'metric' }));
+    s.do(jo, { type: 'record-test', result: 'pipe-heavy', estimateKg: 4 });
+    expect(s.refused(jo, { type: 'plan-correction' }).reason).toBe(
+      'Line set 7 cannot be corrected by Railcall: It is out by 4 kg, less than the lightest brick (9 kg): no brick would bring it closer to balance.',
+    );
   });
 
   it('refuses a correction Railcall cannot work out, with the figures', () => {
