@@ -51,11 +51,18 @@ test.describe('sign-in edges at phone size', () => {
   });
 
   test('a person whose roles were all removed is told they hold no role at this venue', async ({ browser }) => {
-    // The technical director takes away Robin's only role (this lane's own database; no other spec signs Robin in here).
+    // Robin is signed in on a phone when the technical director takes away Robin's only role
+    // (this lane's own database; no other test here signs Robin in).
+    const robinPhone = await openPhone(browser, base, 'deck');
+    await expect(robinPhone.page.getByRole('heading', { name: 'Hello, Robin' })).toBeVisible();
     const td = await openPhone(browser, base, 'td');
     const people = await (await td.page.request.get('/api/people')).json();
     const robin = (people.people as { id: number; email: string }[]).find((p) => p.email === 'deck@larkspur.example')!;
     expect((await td.page.request.put(`/api/people/${robin.id}/roles`, { data: { roles: [] } })).status()).toBe(200);
+    // The phone is told at once, and goes to sign-in saying why.
+    await expect(robinPhone.page).toHaveURL(/\/sign-in/);
+    await expect(robinPhone.page.getByTestId('sign-in-problem')).toHaveText(/you hold no role at this venue any more/);
+    await robinPhone.context.close();
 
     const context = await browser.newContext({ ...PHONE, baseURL: base });
     const page = await context.newPage();

@@ -11,6 +11,11 @@ export interface ServerToClientEvents extends SessionServerToClientEvents {
   'auth:signed-out': () => void;
   /** Sent to every socket of a sign-in when one of its tabs switched venue: reload what is shown. */
   'me:venue-changed': (payload: { venue: VenueSummary }) => void;
+  /**
+   * Sent to every socket of a person whose roles changed: the phone asks who it is again; `reason` is
+   * what to tell them if that finds them signed out (no role at this venue any more).
+   */
+  'me:roles-changed': (payload: { reason: string }) => void;
   /** Who has the session open now, after someone connects or drops. */
   'session:presence': (payload: { sessionId: number; presence: PresenceEntry[] }) => void;
   /**

@@ -19,6 +19,8 @@ export const useAuthStore = defineStore('auth', () => {
   const connection = useConnectionStore();
 
   const signedIn = computed(() => me.value !== null);
+  /** Why this phone was signed out by the server (roles taken away), for the sign-in page to say once. */
+  const signedOutReason = ref<string | null>(null);
   /** The venue's IANA time zone, for every date and time on screen (undefined: the phone's own, until known). */
   const timeZone = computed<string | undefined>(() => me.value?.venue.timeZone);
   const roles = computed<Role[]>(() => orderedRoles(me.value?.roles ?? []));
@@ -119,6 +121,15 @@ export const useAuthStore = defineStore('auth', () => {
   });
   // Another tab of this sign-in switched venue: show the venue it chose here too.
   socket.on('me:venue-changed', () => void load().catch(() => undefined));
+  // The technical director changed this person's roles: ask who we are now; none left means signed out.
+  socket.on('me:roles-changed', ({ reason }) => {
+    void load().then((now) => {
+      if (!now) {
+        signedOutReason.value = reason;
+        void forgetEverything();
+      }
+    }, () => undefined);
+  });
   // The server refused the live connection (e.g. the session expired): check who we still are.
   // Back online after opening from the cache: ask who we are for real.
   socket.on('connect', () => {
@@ -128,5 +139,5 @@ export const useAuthStore = defineStore('auth', () => {
     if (!socket.active && me.value) void load().catch(() => undefined);
   });
 
-  return { me, fromCache, loaded, signedIn, timeZone, roles, homeRoute, roleHomes, hasRole, load, become, signIn, acceptInvite, chooseVenue, openVenue, resetPassword, signOut };
+  return { me, fromCache, loaded, signedIn, signedOutReason, timeZone, roles, homeRoute, roleHomes, hasRole, load, become, signIn, acceptInvite, chooseVenue, openVenue, resetPassword, signOut };
 });

@@ -3,6 +3,7 @@ import request from 'supertest';
 import { DEMO_PASSWORD } from '@shared/protocol/http';
 import { startTestApp, type TestApp } from '../support/app';
 import { signedIn, type Agent } from '../support/people';
+import { Phone } from '../support/crew';
 
 const WRONG = 'E-mail or password is wrong.';
 
@@ -27,7 +28,12 @@ describe('sign-in edges', () => {
   describe('a person whose roles were all removed', () => {
     it('is signed out on their next request, and told at sign-in that they hold no role at this venue', async () => {
       const deck = await signedIn(t.url, 'deck@larkspur.example');
+      const phone = await Phone.signIn(t.url, 'deck@larkspur.example');
+      const told = new Promise<string>((resolve) => phone.socket.once('me:roles-changed', ({ reason }) => resolve(reason)));
       expect((await admin.put(`/api/people/${await idOf('deck@larkspur.example')}/roles`).send({ roles: [] })).status).toBe(200);
+      // The open phone is told at once, in words it can show on the sign-in page.
+      expect(await told).toMatch(/you hold no role at this venue any more/);
+      phone.close();
       expect((await deck.get('/api/me')).status).toBe(401);
 
       const res = await signIn('deck@larkspur.example', DEMO_PASSWORD);

@@ -138,6 +138,9 @@ export async function stopWatching(io: RailcallServer, personId: number, people:
     ? 'Your roles at this venue changed. Railcall opens the session again with your new roles.'
     : 'You no longer hold a role at this venue, so this phone cannot follow the session any more.';
   const sockets = await io.in(personRoom(personId)).fetchSockets();
+  io.in(personRoom(personId)).emit('me:roles-changed', {
+    reason: now ? 'Your roles changed.' : 'You were signed out: you hold no role at this venue any more. Ask your technical director to give you one.',
+  });
   const stillAt = new Map<number, boolean>();
   for (const s of sockets) {
     for (const room of s.rooms) {
