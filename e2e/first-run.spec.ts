@@ -3,24 +3,27 @@ import { expect, test, type Browser, type Page } from '@playwright/test';
 import { stringify } from 'csv-stringify/sync';
 import sharp from 'sharp';
 import { csvHeaders } from '../shared/protocol/schedule-csv';
-import { FIRST_RUN_LOG, laneUrl } from './support/lanes';
+import { firstRunLog, laneUrl, type FirstRunLane } from './support/lanes';
 import { PHONE } from './fixtures/crew';
 
 // The first day of a new install: the real server process on an empty database without the demo
-// (e2e/support/serve.ts). Everything below is done through the screens, at phone size.
-const base = laneUrl('first-run');
-test.use({ baseURL: base });
+// (e2e/support/serve.ts). Everything below is done through the screens, on a phone and on a laptop
+// (one install each: setup works once).
+const SIZES: Array<{ lane: FirstRunLane; viewport: { width: number; height: number } }> = [
+  { lane: 'first-run', viewport: { width: 360, height: 740 } },
+  { lane: 'first-run-wide', viewport: { width: 1280, height: 800 } },
+];
 
 const DIRECTOR = { name: 'Robin Ashgrove', email: 'robin@ashgrove-rep.example', password: 'first-night-call' };
 const RAIL = { name: 'Sam Tallow', email: 'sam@ashgrove-rep.example', password: 'rope-lock-on-please' };
 
 /** The setup code the server printed in its console at start (server/index.ts). */
-async function setupCodeFromConsole(): Promise<string> {
+async function setupCodeFromConsole(lane: FirstRunLane): Promise<string> {
   let code = '';
   await expect.poll(() => {
-    code = /setup code ([A-Z2-9]{4}-[A-Z2-9]{4}-[A-Z2-9]{4})/.exec(readFileSync(FIRST_RUN_LOG, 'utf8'))?.[1] ?? '';
+    code = /setup code ([A-Z2-9]{4}-[A-Z2-9]{4}-[A-Z2-9]{4})/.exec(readFileSync(firstRunLog(lane), 'utf8'))?.[1] ?? '';
     return code;
-  }, { message: `a setup code in ${FIRST_RUN_LOG}` }).not.toBe('');
+  }, { message: `a setup code in ${firstRunLog(lane)}` }).not.toBe('');
   return code;
 }
 
@@ -39,23 +42,27 @@ function tenLineSetsCsv(): string {
   return stringify(rows, { header: true, columns: csvHeaders('imperial') });
 }
 
-async function newPhone(browser: Browser, who: string): Promise<{ page: Page; errors: string[] }> {
-  const context = await browser.newContext({ ...PHONE, baseURL: base });
+async function newDevice(browser: Browser, baseURL: string, viewport: { width: number }, who: string): Promise<{ page: Page; errors: string[] }> {
+  const context = await browser.newContext(viewport.width > 800 ? { viewport: { width: 1280, height: 800 }, baseURL } : { ...PHONE, baseURL });
   const page = await context.newPage();
   const errors: string[] = [];
   page.on('pageerror', (e) => errors.push(`[${who}] ${e.message}`));
   return { page, errors };
 }
 
-test('from a first run, the director sets up the venue and its schedule, a rail operator plans a session on a new set, and the director opens a second venue', async ({ browser }) => {
+for (const { lane, viewport } of SIZES) test(`from a first run, the director sets up the venue and its schedule, a rail operator plans a session on a new set, and the director opens a second venue (${viewport.width} px)`, async ({ browser }) => {
   test.setTimeout(180_000);
-  const director = await newPhone(browser, 'director');
+  const base = laneUrl(lane);
+  const wide = viewport.width > 800;
+  const director = await newDevice(browser, base, viewport, 'director');
   const page = director.page;
+  // The schedule is a table on a laptop and a list on a phone.
+  const lineSets = () => page.locator(wide ? '[data-testid^="line-set-row-"]' : '[data-testid^="line-set-item-"]');
 
   // 1. Setup: the install sends everyone to it, and it needs the printed code.
   await page.goto('/');
   await expect(page).toHaveURL(/\/setup$/);
-  await page.getByLabel('Setup code').fill(await setupCodeFromConsole());
+  await page.getByLabel('Setup code').fill(await setupCodeFromConsole(lane));
   await page.getByLabel('Venue name').fill('Ashgrove Repertory');
   await page.getByLabel('Your name').fill(DIRECTOR.name);
   await page.getByLabel('Your e-mail').fill(DIRECTOR.email);
@@ -110,8 +117,8 @@ test('from a first run, the director sets up the venue and its schedule, a rail 
   await csvDialog.getByTestId('csv-file').setInputFiles({ name: 'ashgrove.csv', mimeType: 'text/csv', buffer: Buffer.from(tenLineSetsCsv()) });
   await expect(csvDialog.getByTestId('csv-preview')).toContainText('10 line sets to add');
   await csvDialog.getByTestId('csv-confirm').click();
-  await expect(page.getByTestId('line-set-item-11')).toBeVisible();
-  await expect(page.getByRole('list', { name: 'Line sets' }).locator('[data-testid^="line-set-item-"]')).toHaveCount(11);
+  await expect(page.getByTestId(wide ? 'line-set-row-11' : 'line-set-item-11')).toBeVisible();
+  await expect(lineSets()).toHaveCount(11);
 
   // 6. A rail operator, invited from People.
   await page.goto('/admin/people');
@@ -127,7 +134,7 @@ test('from a first run, the director sets up the venue and its schedule, a rail 
   await invite.getByRole('button', { name: 'Close' }).click();
 
   // 7. The rail operator takes the invitation and plans a session on a set that came from the CSV.
-  const rail = await newPhone(browser, 'rail');
+  const rail = await newDevice(browser, base, viewport, 'rail');
   await rail.page.goto(link);
   await rail.page.getByLabel('New password').fill(RAIL.password);
   await rail.page.getByLabel('The same password again').fill(RAIL.password);
@@ -154,13 +161,14 @@ test('from a first run, the director sets up the venue and its schedule, a rail 
   await expect(page.getByText('Now working at Ashgrove Studio.')).toBeVisible();
   await page.goto('/schedule');
   await expect(page.getByText('Line set schedule').first()).toBeVisible();
-  await expect(page.locator('[data-testid^="line-set-item-"]')).toHaveCount(0);
+  await expect(page.getByText(/^Ashgrove Studio · lengths in/)).toBeVisible();
+  await expect(lineSets()).toHaveCount(0);
   await page.getByRole('button', { name: 'Menu' }).click();
   const menu = page.getByRole('navigation', { name: 'Menu' });
   await menu.getByText('Ashgrove Repertory', { exact: true }).click();
   await expect(page.getByText('Now working at Ashgrove Repertory.')).toBeVisible();
   await page.goto('/schedule');
-  await expect(page.locator('[data-testid^="line-set-item-"]')).toHaveCount(11);
+  await expect(lineSets()).toHaveCount(11);
 
   expect([...director.errors, ...rail.errors]).toEqual([]);
 });

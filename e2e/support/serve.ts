@@ -11,15 +11,15 @@ import { seedIfEmpty } from '../../server/db/setup';
 import { createLogger } from '../../server/logger';
 import { createTestDatabase } from '../../tests/support/db';
 import { playPastDrapeUnload } from '../../server/db/seed/past-session';
-import { E2E_BASE_PORT, FIRST_RUN_LOG, LANES, type Lane } from './lanes';
+import { E2E_BASE_PORT, FIRST_RUN_LANES, LANES, firstRunLog, type FirstRunLane } from './lanes';
 
 const stops: (() => Promise<void>)[] = [];
 // One local fake mail server for every lane; the mail spec reads what it keeps through the mailbox page.
 const mailDir = mkdtempSync(join(tmpdir(), 'railcall-e2e-mail-'));
 const smtp = await startFakeSmtp({ dir: mailDir });
 for (const [i, lane] of LANES.entries()) {
-  if (lane === 'first-run') {
-    stops.push(await serveFirstRun(lane, E2E_BASE_PORT + i));
+  if ((FIRST_RUN_LANES as readonly string[]).includes(lane)) {
+    stops.push(await serveFirstRun(lane as FirstRunLane, E2E_BASE_PORT + i));
     continue;
   }
   const database = await createTestDatabase();
@@ -48,12 +48,13 @@ for (const [i, lane] of LANES.entries()) {
 /**
  * An install on its first day: `node --import tsx server/index.ts` exactly as `npm start` runs it, on
  * a migrated empty database with RAILCALL_SEED_DEMO=0, so it prints a setup code to its console (the file
- * FIRST_RUN_LOG). Answers how to stop it: SIGTERM to that process (its own clean shutdown), then the database.
+ * firstRunLog(lane)). Answers how to stop it: SIGTERM to that process (its own clean shutdown), then the database.
  */
-async function serveFirstRun(lane: Lane, port: number): Promise<() => Promise<void>> {
+async function serveFirstRun(lane: FirstRunLane, port: number): Promise<() => Promise<void>> {
   const database = await createTestDatabase();
   const url = `http://127.0.0.1:${port}`;
-  const log = openSync(FIRST_RUN_LOG, 'w');
+  const logFile = firstRunLog(lane);
+  const log = openSync(logFile, 'w');
   const server = spawn(process.execPath, ['--import', 'tsx', 'server/index.ts'], {
     env: {
       PATH: process.env.PATH ?? '',
@@ -68,13 +69,13 @@ async function serveFirstRun(lane: Lane, port: number): Promise<() => Promise<vo
   const exited = new Promise<void>((resolve) => server.once('exit', () => resolve()));
   // Ready when it answers; a server that exits first fails the whole run with its console to read.
   for (let tries = 0; ; tries++) {
-    if (server.exitCode !== null) throw new Error(`the first-run server exited (${server.exitCode}): see ${FIRST_RUN_LOG}`);
+    if (server.exitCode !== null) throw new Error(`the first-run server exited (${server.exitCode}): see ${logFile}`);
     const ok = await fetch(`${url}/api/setup`).then((r) => r.ok, () => false);
     if (ok) break;
-    if (tries > 600) throw new Error(`the first-run server did not answer in 60 s: see ${FIRST_RUN_LOG}`);
+    if (tries > 600) throw new Error(`the first-run server did not answer in 60 s: see ${logFile}`);
     await new Promise((r) => setTimeout(r, 100));
   }
-  console.log(`[e2e] lane ${lane} on ${url} (server/index.ts, no demo; console in ${FIRST_RUN_LOG})`);
+  console.log(`[e2e] lane ${lane} on ${url} (server/index.ts, no demo; console in ${logFile})`);
   return async () => {
     server.kill('SIGTERM');
     await exited;
