@@ -1,10 +1,11 @@
 /**
  * Benchmark for the rigging calculations, against their budgets:
- * planChange for 20 pieces and 4 brick types under 5 ms; liftLineLoads for 8 lift lines and 50 loads under 1 ms.
+ * planChange for 20 pieces and 4 brick types under 5 ms; liftLineLoads for 8 lift lines and 50 loads under 1 ms;
+ * slackAwareLiftLineLoads for the same with a heavy load at one end (lines go slack) under 2 ms.
  * Run: node --import tsx scripts/bench/rigging.ts. Prints p50 and p99 per case and the ratio to the budget.
  */
 import { performance } from 'node:perf_hooks';
-import { lbToKg, liftLineLoads, planChange, type LiftLineLoadsInput, type PlanInput } from '../../shared/rigging/index';
+import { lbToKg, liftLineLoads, planChange, slackAwareLiftLineLoads, type LiftLineLoadsInput, type PlanInput } from '../../shared/rigging/index';
 
 /** A small seeded generator, so every run measures the same inputs. */
 function random(seed: number): () => number {
@@ -86,4 +87,10 @@ measure('planChange (20 pieces, 4 brick types)', 5, (rand) => {
 measure('liftLineLoads (8 lift lines, 50 loads)', 1, (rand) => {
   const input = beamCase(rand);
   return () => liftLineLoads(input);
+}, 20000);
+measure('slackAwareLiftLineLoads (8 lift lines, 50 loads, 300 kg at one end)', 2, (rand) => {
+  const input = beamCase(rand);
+  // A heavy piece on the end overhang: the rigid solution pushes the lines near it, which go slack.
+  input.pointLoads!.push({ atM: 0, massKg: 300 });
+  return () => slackAwareLiftLineLoads(input);
 }, 20000);
