@@ -94,7 +94,7 @@ function walk(lane: Lane, theme: 'dark' | 'light') {
     await expectScreenSound(r, 'planner, empty', rail.errors);
     await titleInput.fill(TITLE);
     // 36 sets on the demo: a search narrows the list; a picked set stays in it once the search is cleared.
-    const find = r.getByLabel('Find a line set: number, name or piece');
+    const find = r.getByLabel('Find by number, name or piece');
     await find.fill('sea-mist');
     await expect(r.getByRole('checkbox', { name: /^Line set 1,/ })).toBeHidden();
     await r.getByRole('checkbox', { name: /^Line set 7,/ }).click();
