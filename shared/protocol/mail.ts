@@ -7,7 +7,7 @@ import { z } from 'zod';
 export const MAIL_STATUSES = ['queued', 'sending', 'sent', 'retry', 'failed'] as const;
 export type MailStatus = (typeof MAIL_STATUSES)[number];
 
-export const MAIL_KINDS = ['invitation', 'password-reset', 'session-report'] as const;
+export const MAIL_KINDS = ['invitation', 'password-reset', 'session-report', 'venue-added'] as const;
 export type MailKind = (typeof MAIL_KINDS)[number];
 
 /** One message of the outbox as the technical director sees it. */

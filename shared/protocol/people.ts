@@ -108,11 +108,18 @@ export interface PersonRow {
   invitationMail: MailView | null;
 }
 
-/** Answer to adding a person or sending a new invitation: the one-time link (shown once) and its mail. */
+/**
+ * Answer to adding a person or sending a new invitation: the one-time link (shown once) and its mail.
+ * `joinedExisting`: the e-mail already had an account (crew elsewhere, or once here); it got the roles
+ * at this venue and kept its own name. Such an account that has signed up gets a notice mail and no
+ * link (`inviteUrl` null); one that never signed up gets a fresh invitation (its old link stops working).
+ * Nothing else of the account (its other venues, its roles there) is in the answer.
+ */
 export interface AddPersonResult {
   person: PersonRow;
-  inviteUrl: string;
+  inviteUrl: string | null;
   mail: MailView | null;
+  joinedExisting: boolean;
 }
 
 /** The one-time setup code the server prints at start while no venue exists: groups of letters and digits. */

@@ -220,11 +220,14 @@ export class MailQueue {
     return rows.map((r) => toMailView(r, files.filter((f) => f.message_id === r.id).map((f) => f.filename)));
   }
 
-  /** The newest message of a kind about each of these people (the people page shows invitation status). */
-  async latestFor(personIds: number[], kind: MailKind): Promise<Map<number, MailView>> {
+  /**
+   * The newest message of a kind about each of these people (the people page shows invitation
+   * status), sent from this venue only: another venue's mail to the same person is not shown here.
+   */
+  async latestFor(personIds: number[], kind: MailKind, venueId: number): Promise<Map<number, MailView>> {
     const out = new Map<number, MailView>();
     if (personIds.length === 0) return out;
-    const rows = await this.db.getRepository(MailMessageRow).find({ where: { personId: In(personIds), kind }, order: { id: 'ASC' } });
+    const rows = await this.db.getRepository(MailMessageRow).find({ where: { personId: In(personIds), kind, venueId }, order: { id: 'ASC' } });
     for (const r of rows) out.set(r.personId!, toMailView(r));
     return out;
   }

@@ -19,6 +19,22 @@ export function invitationText(p: { name: string; venueName: string; link: strin
   };
 }
 
+/** To someone who already has an account and was just given roles at one more venue. */
+export function venueAddedText(p: { name: string; venueName: string; roles: string[]; addedBy: string }): { subject: string; text: string } {
+  return {
+    subject: `You are now on the crew of ${p.venueName} in Railcall`,
+    text: [
+      `Hello ${p.name},`,
+      '',
+      `${p.addedBy} has added you to the fly crew of ${p.venueName} on Railcall.`,
+      `You now hold the roles ${p.roles.join(', ')} at ${p.venueName}.`,
+      'Sign in as usual (same e-mail, same password) and pick the venue from the menu.',
+      '',
+      'If you did not expect this, tell the technical director of that venue.',
+    ].join('\n'),
+  };
+}
+
 export function passwordResetText(p: { name: string; link: string; expiresAt: Date }): { subject: string; text: string } {
   return {
     subject: 'Reset your Railcall password',

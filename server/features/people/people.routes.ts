@@ -1,4 +1,4 @@
-import { addPersonSchema, editPersonSchema, setRolesSchema } from '@shared/protocol/people';
+import { addPersonSchema, editPersonSchema, setRolesSchema, type AddPersonResult } from '@shared/protocol/people';
 import { route, type RouteSpec } from '../../middleware/routes';
 import { idParam } from '../../middleware/validate';
 import { invitePath, type PeopleService } from './people.service';
@@ -27,8 +27,8 @@ export function peopleRoutes(people: PeopleService, hooks: PeopleRouteHooks): Ro
       status: 201,
       body: addPersonSchema,
       async handler({ user, body }) {
-        const { person, token, mail } = await people.add(user.venueId, user, body);
-        return { person, inviteUrl: invitePath(token), mail };
+        const { person, token, mail, joinedExisting } = await people.add(user.venueId, user, body);
+        return { person, inviteUrl: token ? invitePath(token) : null, mail, joinedExisting } satisfies AddPersonResult;
       },
     }),
     route({
@@ -58,7 +58,7 @@ export function peopleRoutes(people: PeopleService, hooks: PeopleRouteHooks): Ro
       params: idParam,
       async handler({ user, params }) {
         const { person, token, mail } = await people.resendInvitation(user.venueId, user, params.id);
-        return { person, inviteUrl: invitePath(token), mail };
+        return { person, inviteUrl: invitePath(token), mail, joinedExisting: false } satisfies AddPersonResult;
       },
     }),
     route({

@@ -1,6 +1,6 @@
 import { createHash, randomBytes } from 'node:crypto';
 import { In, type DataSource, type EntityManager } from 'typeorm';
-import { ROLES, type Role } from '@shared/protocol/roles';
+import { ROLE_LABELS, ROLES, type Role } from '@shared/protocol/roles';
 import type { AddPersonInput, EditPersonInput, Me, PersonRow, PersonStatus } from '@shared/protocol/people';
 import type { MailView } from '@shared/protocol/mail';
 import { venueTimeZone } from '@shared/protocol/record';
@@ -13,7 +13,7 @@ import { hashPassword } from '../auth/password';
 import { resolveVenue } from '../venue/venue-access';
 import type { MailQueue } from '../mail/mail-queue';
 import { toMailView } from '../mail/mail-queue';
-import { invitationText, passwordResetText } from '../mail/messages';
+import { invitationText, passwordResetText, venueAddedText } from '../mail/messages';
 
 /** What the server knows of a signed-in person on every request. */
 export interface SignedInUser {
@@ -32,6 +32,15 @@ export interface SignedInUser {
 export interface PeopleMail {
   queue: MailQueue;
   config: MailConfig;
+}
+
+/** What adding a person made: `token` is the one-time invitation (null when a signed-up account only got roles here). */
+export interface AddedPerson {
+  person: PersonRow;
+  token: string | null;
+  mail: MailView | null;
+  /** The e-mail already had an account: it got the roles here and kept its name. */
+  joinedExisting: boolean;
 }
 
 export const sha256 = (text: string) => createHash('sha256').update(text).digest('hex');
@@ -99,7 +108,7 @@ export class PeopleService {
     const ids = [...new Set(roles.map((r) => r.personId))];
     if (ids.length === 0) return [];
     const people = await this.db.getRepository(Person).find({ where: { id: In(ids) }, order: { name: 'ASC' } });
-    const mails = this.mail ? await this.mail.queue.latestFor(ids, 'invitation') : new Map<number, MailView>();
+    const mails = this.mail ? await this.mail.queue.latestFor(ids, 'invitation', venueId) : new Map<number, MailView>();
     return people.map((p) => toRow(p, roles.filter((r) => r.personId === p.id).map((r) => r.role), mails.get(p.id) ?? null));
   }
 
@@ -108,28 +117,57 @@ export class PeopleService {
     return (await this.list(venueId)).filter((p) => p.status === 'active').map(({ id, name, email }) => ({ id, name, email }));
   }
 
-  /** Adds a person with their roles and a one-time invitation (token returned once, stored hashed, mailed). */
-  async add(venueId: number, invitedBy: SignedInUser, input: AddPersonInput): Promise<{ person: PersonRow; token: string; mail: MailView | null }> {
-    const result = await this.db.transaction(async (m) => {
+  /**
+   * Adds a person to this venue's crew with their roles. A new e-mail gets a new account and a
+   * one-time invitation (token returned once, stored hashed, mailed). An e-mail that already has an
+   * account holding no role here (crew of another venue, or someone whose roles here were all taken
+   * away) gets the roles on that account, its name kept: a notice mail if they have signed up, else a
+   * fresh invitation (the old link stops working). Nothing of the account's other venues is answered.
+   */
+  async add(venueId: number, invitedBy: SignedInUser, input: AddPersonInput): Promise<AddedPerson> {
+    const result = await this.db.transaction(async (m): Promise<AddedPerson> => {
       const email = input.email.toLowerCase();
-      if (await m.getRepository(Person).findOneBy({ email })) {
-        throw new HttpError('conflict', 'Someone with that e-mail already has an account.', { email: ['Already in use'] });
-      }
-      const token = newToken();
-      const person = await m.getRepository(Person).save(m.getRepository(Person).create({
-        name: input.name,
-        email,
-        passwordHash: null,
-        inviteTokenHash: sha256(token),
-        inviteExpiresAt: new Date(Date.now() + this.inviteDays * 24 * 3600 * 1000),
-        resetTokenHash: null,
-        resetExpiresAt: null,
-        deactivatedAt: null,
-      }));
       const roles = sortRoles(input.roles);
-      await m.getRepository(VenueRole).insert(roles.map((role) => ({ venueId, personId: person.id, role })));
-      const mail = await this.queueInvitation(m, venueId, person, token, invitedBy);
-      return { person: toRow(person, roles, mail), token, mail };
+      const existing = await m.getRepository(Person).createQueryBuilder('p').setLock('pessimistic_write')
+        .where('p.email = :email', { email }).getOne();
+      if (!existing) {
+        const token = newToken();
+        const person = await m.getRepository(Person).save(m.getRepository(Person).create({
+          name: input.name,
+          email,
+          passwordHash: null,
+          inviteTokenHash: sha256(token),
+          inviteExpiresAt: new Date(Date.now() + this.inviteDays * 24 * 3600 * 1000),
+          resetTokenHash: null,
+          resetExpiresAt: null,
+          deactivatedAt: null,
+        }));
+        await m.getRepository(VenueRole).insert(roles.map((role) => ({ venueId, personId: person.id, role })));
+        const mail = await this.queueInvitation(m, venueId, person, token, invitedBy);
+        return { person: toRow(person, roles, mail), token, mail, joinedExisting: false };
+      }
+      if (await m.getRepository(VenueRole).existsBy({ venueId, personId: existing.id })) {
+        throw new HttpError('conflict', `${existing.name} is already in this venue's crew: change their roles on the list instead.`, { email: ["Already in this venue's crew"] });
+      }
+      if (existing.deactivatedAt) {
+        throw new HttpError(
+          'conflict',
+          'That e-mail belongs to an account that is deactivated. Only a technical director of the venue that deactivated it can reactivate it; once they have, add the person here again.',
+          { email: ['This account is deactivated'] },
+        );
+      }
+      await m.getRepository(VenueRole).insert(roles.map((role) => ({ venueId, personId: existing.id, role })));
+      if (existing.passwordHash) {
+        const mail = await this.queueVenueAdded(m, venueId, existing, roles, invitedBy);
+        return { person: toRow(existing, roles, null), token: null, mail, joinedExisting: true };
+      }
+      // Never signed up: a fresh invitation, exactly as resendInvitation makes one.
+      const token = newToken();
+      existing.inviteTokenHash = sha256(token);
+      existing.inviteExpiresAt = new Date(Date.now() + this.inviteDays * 24 * 3600 * 1000);
+      await m.getRepository(Person).update({ id: existing.id }, { inviteTokenHash: existing.inviteTokenHash, inviteExpiresAt: existing.inviteExpiresAt });
+      const mail = await this.queueInvitation(m, venueId, existing, token, invitedBy);
+      return { person: toRow(existing, roles, mail), token, mail, joinedExisting: true };
     });
     this.mail?.queue.kick();
     return result;
@@ -160,7 +198,7 @@ export class PeopleService {
       await m.getRepository(Person).update({ id: person.id }, { inviteTokenHash: null, inviteExpiresAt: null });
       person.inviteTokenHash = null;
       person.inviteExpiresAt = null;
-      return toRow(person, roles, await this.latestInvitationMail(person.id));
+      return toRow(person, roles, await this.latestInvitationMail(venueId, person.id));
     });
   }
 
@@ -174,7 +212,7 @@ export class PeopleService {
         throw new HttpError('conflict', 'Someone else already uses that e-mail address.', { email: ['Already in use'] });
       }
       await m.getRepository(Person).update({ id: person.id }, { name: input.name, email });
-      return toRow({ ...person, name: input.name, email }, roles, await this.latestInvitationMail(person.id));
+      return toRow({ ...person, name: input.name, email }, roles, await this.latestInvitationMail(venueId, person.id));
     });
   }
 
@@ -191,7 +229,7 @@ export class PeopleService {
       const now = new Date();
       await m.getRepository(Person).update({ id: person.id }, { deactivatedAt: now, resetTokenHash: null, resetExpiresAt: null, inviteTokenHash: null, inviteExpiresAt: null });
       await signOutEverywhere(m, person.id);
-      return toRow({ ...person, deactivatedAt: now, inviteTokenHash: null, inviteExpiresAt: null }, roles, await this.latestInvitationMail(person.id));
+      return toRow({ ...person, deactivatedAt: now, inviteTokenHash: null, inviteExpiresAt: null }, roles, await this.latestInvitationMail(venueId, person.id));
     });
   }
 
@@ -199,7 +237,7 @@ export class PeopleService {
     return this.db.transaction(async (m) => {
       const { person, roles } = await this.lockPerson(m, venueId, personId);
       await m.getRepository(Person).update({ id: person.id }, { deactivatedAt: null });
-      return toRow({ ...person, deactivatedAt: null }, roles, await this.latestInvitationMail(person.id));
+      return toRow({ ...person, deactivatedAt: null }, roles, await this.latestInvitationMail(venueId, person.id));
     });
   }
 
@@ -214,7 +252,7 @@ export class PeopleService {
       if (!roles.includes('admin')) await this.keepAnAdmin(m, current, personId);
       await m.getRepository(VenueRole).delete({ venueId, personId });
       if (roles.length) await m.getRepository(VenueRole).insert(roles.map((role) => ({ venueId, personId, role })));
-      return toRow(person, roles, await this.latestInvitationMail(person.id));
+      return toRow(person, roles, await this.latestInvitationMail(venueId, person.id));
     });
   }
 
@@ -289,8 +327,16 @@ export class PeopleService {
     return toMailView(row);
   }
 
-  private async latestInvitationMail(personId: number): Promise<MailView | null> {
-    return this.mail ? ((await this.mail.queue.latestFor([personId], 'invitation')).get(personId) ?? null) : null;
+  private async queueVenueAdded(m: EntityManager, venueId: number, person: Person, roles: Role[], by: SignedInUser): Promise<MailView | null> {
+    if (!this.mail) return null;
+    const venue = await m.getRepository(Venue).findOneByOrFail({ id: venueId });
+    const words = venueAddedText({ name: person.name, venueName: venue.name, roles: roles.map((r) => ROLE_LABELS[r]), addedBy: by.name });
+    const row = await this.mail.queue.enqueue(m, { venueId, personId: person.id, kind: 'venue-added', to: { name: person.name, address: person.email }, ...words });
+    return toMailView(row);
+  }
+
+  private async latestInvitationMail(venueId: number, personId: number): Promise<MailView | null> {
+    return this.mail ? ((await this.mail.queue.latestFor([personId], 'invitation', venueId)).get(personId) ?? null) : null;
   }
 
   private lockVenueRoles(m: EntityManager, venueId: number): Promise<VenueRole[]> {
