@@ -23,6 +23,19 @@ const button = (w: VueWrapper, testId: string) => w.find(`[data-testid="${testId
 const buttonLabels = (w: VueWrapper) => w.findAll('button').map((b) => b.text());
 
 describe('RailActionPanel', () => {
+  it('reads a test estimate typed with a decimal comma ("5,5") as 5.5 in the venue units', async () => {
+    const done = play(railClear(),
+      [sam, { type: 'confirm-step', stepIndex: 0 }], [robin, { type: 'confirm-step', stepIndex: 1 }],
+      [alex, { type: 'confirm-step', stepIndex: 2 }], [robin, { type: 'confirm-step', stepIndex: 3 }],
+      [sam, { type: 'call-loading-complete' }]);
+    const w = panel(RailActionPanel, done, jo.personId);
+    await w.get('[data-testid="record-test"]').findAll('input, textarea')[0].setValue('5,5');
+    await w.findAll('button').find((b) => b.text() === 'Arbor-heavy')!.trigger('click');
+    const [[action]] = w.emitted('act') as [[{ type: string; result: string; estimateKg: number }]];
+    expect(action).toMatchObject({ type: 'record-test', result: 'arbor-heavy' });
+    expect(action.estimateKg).toBeCloseTo(5.5 * LB, 9);
+  });
+
   it('records an out-of-balance test with the estimate in the venue units and a note, and then offers no second test', async () => {
     const done = play(railClear(),
       [sam, { type: 'confirm-step', stepIndex: 0 }], [robin, { type: 'confirm-step', stepIndex: 1 }],
