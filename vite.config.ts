@@ -70,7 +70,8 @@ export default defineConfig({
           name: 'node',
           environment: 'node',
           include: ['tests/shared/**/*.test.ts', 'tests/server/**/*.test.ts', 'tests/scripts/**/*.test.ts'],
-          testTimeout: 30_000,
+          // Property tests of thousands of random line sets take seconds alone, many times that on a busy machine.
+          testTimeout: 120_000,
           hookTimeout: 60_000,
         },
       },
