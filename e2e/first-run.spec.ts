@@ -127,7 +127,7 @@ for (const { lane, viewport } of SIZES) test(`from a first run, the director set
   await add.getByLabel('Name').fill(RAIL.name);
   await add.getByLabel('E-mail').fill(RAIL.email);
   await add.getByText('Rail operator', { exact: true }).click();
-  await add.getByRole('button', { name: 'Add and make invitation' }).click();
+  await add.getByRole('button', { name: 'Add to the crew' }).click();
   const invite = page.getByRole('dialog').filter({ hasText: `Invitation for ${RAIL.name}` });
   const link = await invite.getByTestId('invite-link').inputValue();
   expect(link).toMatch(/\/welcome\/.+/);

@@ -47,7 +47,7 @@ test('an invitation arrives by mail; its link sets a password once and not twice
   await addDialog.getByLabel('Name').fill('Quinn Battenby');
   await addDialog.getByLabel('E-mail').fill(email);
   await addDialog.getByText('Loader', { exact: true }).click();
-  await addDialog.getByRole('button', { name: 'Add and make invitation' }).click();
+  await addDialog.getByRole('button', { name: 'Add to the crew' }).click();
   const invite = page.getByRole('dialog').filter({ hasText: 'Invitation for Quinn Battenby' });
   await expect(invite.getByTestId('invite-mail-status')).toContainText(`Railcall mails this link to ${email}`);
   await invite.getByRole('button', { name: 'Close' }).click();

@@ -78,7 +78,7 @@ test.describe('signing in at phone size', () => {
     await addDialog.getByLabel('Name').fill('Pat Understudy');
     await addDialog.getByLabel('E-mail').fill(email);
     await addDialog.getByText('Deck crew', { exact: true }).click();
-    await addDialog.getByRole('button', { name: 'Add and make invitation' }).click();
+    await addDialog.getByRole('button', { name: 'Add to the crew' }).click();
 
     const inviteDialog = page.getByRole('dialog').filter({ hasText: 'Invitation for Pat Understudy' });
     await expect(inviteDialog).toBeVisible();
