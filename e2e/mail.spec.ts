@@ -147,3 +147,28 @@ test('a session ended early leads from its live screen to its report, where it c
   await expect(sm.page.getByTestId('report-title')).toHaveText(title);
   await expect(sm.page.getByTestId('mail-report')).toBeVisible();
 });
+
+test('a person whose roles here were all taken away is added back with their e-mail: their account and name are kept, a notice arrives', async ({ browser }) => {
+  const td = await openPhone(browser, base, 'td');
+  const { page } = td;
+  // Take every role of the second loader away (as the roles dialog would): they drop off the list.
+  const people = (await (await page.request.get('/api/people')).json()).people as { id: number; name: string; email: string }[];
+  const loader = people.find((p) => p.email === 'loader2@larkspur.example')!;
+  expect((await page.request.put(`/api/people/${loader.id}/roles`, { data: { roles: [] } })).status()).toBe(200);
+  await page.reload();
+  await expect(page.getByTestId('person-row').first()).toBeVisible();
+  await expect(page.getByTestId('person-row').filter({ hasText: 'loader2@larkspur.example' })).toHaveCount(0);
+
+  await page.getByRole('button', { name: 'Add a person' }).click();
+  const addDialog = page.getByRole('dialog');
+  await addDialog.getByLabel('Name').fill('A different name');
+  await addDialog.getByLabel('E-mail').fill('loader2@larkspur.example');
+  await addDialog.getByText('Deck crew', { exact: true }).click();
+  await addDialog.getByRole('button', { name: 'Add to the crew' }).click();
+  await expect(page.getByText(`loader2@larkspur.example already has a Railcall account, so it keeps its own name (${loader.name})`)).toBeVisible();
+  await expect(page.getByRole('dialog').filter({ hasText: 'Invitation for' })).toHaveCount(0);
+  await expect(page.getByTestId('person-row').filter({ hasText: 'loader2@larkspur.example' })).toContainText(loader.name);
+
+  const notice = await mailFor(page.request, (m) => m.to.includes('loader2@larkspur.example') && m.subject.includes('crew of Larkspur Playhouse'));
+  expect(notice.text).toContain('You now hold the roles Deck crew at Larkspur Playhouse.');
+});
