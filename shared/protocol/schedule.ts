@@ -123,6 +123,8 @@ export interface LineSetView {
   outOfBalance: boolean;
   /** Null when in service; else why it is out. */
   outOfService: string | null;
+  /** The open loading session working this set, if any: nobody plans on it or edits it until that one ends. */
+  openSession: { id: number; title: string } | null;
   /** Goes up with every change to the set or its pieces; a save names the version it started from. */
   version: number;
   pieces: PieceView[];
@@ -167,7 +169,7 @@ export function pieceLoads(pieces: Pick<PieceView, 'massKg' | 'positionM' | 'spr
   return { pointLoads, spreadLoads };
 }
 
-type ComputeInput = Omit<LineSetView, 'id' | 'version' | 'computed' | 'outOfBalance' | 'pieces'> & {
+type ComputeInput = Omit<LineSetView, 'id' | 'version' | 'computed' | 'outOfBalance' | 'openSession' | 'pieces'> & {
   pieces: Pick<PieceView, 'massKg' | 'positionM' | 'spreadFromM' | 'spreadToM'>[];
 };
 

@@ -163,12 +163,20 @@ export function planChange(input: PlanInput): PlanResult {
   const finalKg = tidyKg(plan.imbalanceKg());
   // Why the set cannot come to balance: the arbor is full, the bridge ran out, or the lightest brick is too heavy for what is left.
   const tooCoarse = !arborFull && finalKg * purchase < lightestKg - SLACK_KG;
+  // The figures behind a refusal or a warning: what the arbor still needs, what it can take, what the bridge has.
+  const shortKg = finalKg * purchase;
+  const bridgeLeft = () => {
+    const counts = brickTypes.filter((b) => plan.bridge[b.type]).map((b) => `${plan.bridge[b.type]} ${b.type}`);
+    return `${show(bricksMassKg(plan.bridge, brickTypes))}${counts.length ? ` (${counts.join(', ')})` : ''}`;
+  };
+  const capacityText = () =>
+    `it would have to carry ${show(plan.arborSideKg() + shortKg)}, ${show(shortKg)} more than now, and its capacity is ${show(arborCapacityKg ?? Infinity)}`;
   if (finalKg > ropeLockLimitKg) {
     const code = arborFull ? 'arbor-full' : tooCoarse ? 'bricks-too-coarse' : 'not-enough-bricks';
     const reason = {
-      'arbor-full': 'the arbor cannot take enough bricks.',
-      'bricks-too-coarse': 'even the lightest brick would make it arbor-heavy.',
-      'not-enough-bricks': 'there are not enough bricks on the loading bridge.',
+      'arbor-full': `the arbor cannot take enough bricks: ${capacityText()}.`,
+      'bricks-too-coarse': `even the lightest brick (${show(lightestKg)}) would make it arbor-heavy.`,
+      'not-enough-bricks': `there are not enough bricks on the loading bridge: the arbor needs ${show(shortKg)} more, and the bridge has ${bridgeLeft()} left.`,
     }[code];
     return error(
       code,
@@ -180,7 +188,7 @@ export function planChange(input: PlanInput): PlanResult {
     warnings.push({
       severity: 'warning',
       code: arborFull ? 'arbor-full' : 'not-balanced',
-      message: `The set will end pipe-heavy by ${show(finalKg)}: ${arborFull ? 'the arbor is full' : 'the bridge is short of bricks'}. The rope lock can hold it; check the balance at the rail.`,
+      message: `The set will end pipe-heavy by ${show(finalKg)}: ${arborFull ? `the arbor is full (${capacityText()})` : `the bridge is short of bricks (the arbor needs ${show(shortKg)} more, the bridge has ${bridgeLeft()} left)`}. The rope lock can hold it; check the balance at the rail.`,
     });
   }
 

@@ -49,7 +49,7 @@ function lineSet(number: number, name: string, over: Partial<LineSetView> & { pi
     number, name, distanceM: number * FT, purchase: 1 as const, pipeSize: '1-1/2 in Schedule 40', pipeKgPerM: 2.72 * LB / FT, pipeLengthM: 40 * FT,
     pipeKg: 2.72 * 40 * LB, liftLinesM: [2, 11, 20, 29, 38].map((f) => f * FT), liftLineRatingKg: 500 * LB, battenRatingKgPerM: 25 * LB / FT,
     arborKg: 90 * LB, arborCapacityKg: 1200 * LB, highTrimM: 30 * FT, lowTrimM: 4 * FT, notes: '', bricks: { full: 1 },
-    outOfBalance: false, outOfService: null, version: 3, pieces: [] as PieceView[], ...over,
+    outOfBalance: false, outOfService: null, openSession: null, version: 3, pieces: [] as PieceView[], ...over,
   };
   return { id: number * 10, ...base, computed: computeLineSet(base, venue, rigBrickTypes(brickTypes)) };
 }

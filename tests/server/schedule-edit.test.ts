@@ -191,6 +191,12 @@ describe('editing the schedule', () => {
       expect(pieceEdit.status).toBe(409);
       expect((await lineSet(5)).version).toBe(ls.version);
     });
+
+    it('is marked in the schedule with its session, so the planner shows it before anyone plans on it', async () => {
+      const held = await lineSet(5);
+      expect(held.openSession).toMatchObject({ title: 'Sky swap' });
+      expect((await lineSet(6)).openSession).toBeNull();
+    });
   });
 
   describe('venue settings', () => {

@@ -21,7 +21,8 @@ import { BrickTypeRow } from './brick-type.entity';
 import { LineSetRow } from './line-set.entity';
 import { PieceRow } from './piece.entity';
 import { diffFields, recordChanges, type ChangeEntry } from './history';
-import { LINE_SET_FIELDS, PIECE_FIELDS, lineSetFieldsOf, mayEditLineSets, openSessionsByLineSet, pieceFieldsOf } from './schedule-edit.service';
+import { LINE_SET_FIELDS, PIECE_FIELDS, lineSetFieldsOf, mayEditLineSets, pieceFieldsOf } from './schedule-edit.service';
+import { openSessionsByLineSet } from './schedule.service';
 import type { ScheduleService } from './schedule.service';
 
 /** Decimals written: 0.0001 ft is 0.03 mm, 0.0001 lb is 0.05 g. Import compares at the same precision. */

@@ -20,7 +20,7 @@ import { LineSetRow } from './line-set.entity';
 import { PieceRow } from './piece.entity';
 import { ScheduleChangeRow } from './schedule-change.entity';
 import { diffFields, recordChange, type ChangeAuthor } from './history';
-import { toBrickTypeView, type ScheduleService } from './schedule.service';
+import { openSessionsByLineSet, toBrickTypeView, type ScheduleService } from './schedule.service';
 
 export const LINE_SET_FIELDS = [
   'number', 'name', 'distanceM', 'purchase', 'pipeSize', 'pipeKgPerM', 'pipeLengthM', 'liftLinesM', 'liftLineRatingKg',
@@ -349,15 +349,6 @@ export class ScheduleEditor {
 /** The open loading session whose plan holds this line set, if any. */
 export async function openSessionHolding(m: EntityManager, venueId: number, lineSetId: number): Promise<{ id: number; title: string } | null> {
   return (await openSessionsByLineSet(m, venueId)).get(lineSetId) ?? null;
-}
-
-/** The venue's open loading sessions by the line sets they hold, read once (a CSV import checks every set). */
-export async function openSessionsByLineSet(m: EntityManager, venueId: number): Promise<Map<number, { id: number; title: string }>> {
-  const open = await m.getRepository(LoadingSessionRow).createQueryBuilder('s')
-    .where("s.venue_id = :venueId AND s.phase <> 'finished'", { venueId }).orderBy('s.id').getMany();
-  const held = new Map<number, { id: number; title: string }>();
-  for (const s of open) for (const l of s.plan.lineSets) if (!held.has(l.scheduleId)) held.set(l.scheduleId, { id: s.id, title: s.title });
-  return held;
 }
 
 /** A piece must hang on its batten: positions within the pipe's length. */

@@ -10,6 +10,7 @@ import {
   type VenueView,
 } from '@shared/protocol/schedule';
 import { Venue } from '../venue/venue.entity';
+import { LoadingSessionRow } from '../sessions/session.entity';
 import { BrickTypeRow } from './brick-type.entity';
 import { LineSetRow } from './line-set.entity';
 import { PieceRow } from './piece.entity';
@@ -52,6 +53,7 @@ export class ScheduleService {
       : [];
     const { venue, brickTypes } = context ?? { venue: await this.venue(venueId, m), brickTypes: await this.brickTypes(venueId, m) };
     const rigTypes = rigBrickTypes(brickTypes);
+    const held = await openSessionsByLineSet(m, venueId);
     const bySet = new Map<number, PieceView[]>();
     for (const p of pieces) {
       const list = bySet.get(p.lineSetId) ?? [];
@@ -80,6 +82,7 @@ export class ScheduleService {
         bricks: s.bricks,
         outOfBalance: !!s.outOfBalance,
         outOfService: s.outOfService,
+        openSession: held.get(s.id) ?? null,
         version: s.version,
         pieces: bySet.get(s.id) ?? [],
       };
@@ -92,4 +95,13 @@ export class ScheduleService {
     const lineSets = await this.lineSets(venueId, this.db.manager, undefined, { venue, brickTypes });
     return { venue, lineSets, brickTypes };
   }
+}
+
+/** The venue's open loading sessions by the line sets they hold, read once (a CSV import checks every set). */
+export async function openSessionsByLineSet(m: EntityManager, venueId: number): Promise<Map<number, { id: number; title: string }>> {
+  const open = await m.getRepository(LoadingSessionRow).createQueryBuilder('s')
+    .where("s.venue_id = :venueId AND s.phase <> 'finished'", { venueId }).orderBy('s.id').getMany();
+  const held = new Map<number, { id: number; title: string }>();
+  for (const s of open) for (const l of s.plan.lineSets) if (!held.has(l.scheduleId)) held.set(l.scheduleId, { id: s.id, title: s.title });
+  return held;
 }

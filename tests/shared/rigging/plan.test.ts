@@ -87,12 +87,15 @@ describe('planChange: worked cases', () => {
     const r = planChange({ ...twoDrapes, add: [{ id: 'truss', massKg: 60 }], bridgeStock: { full: 2 } });
     expect(r.steps).toEqual([]);
     expect(r.warnings.at(-1)).toMatchObject({ severity: 'error', code: 'not-enough-bricks' });
+    // Worked by hand: 66 kg a side; the 60 kg truss, less the bridge's 2 × 9 kg, leaves 42 kg to find.
+    expect(r.warnings.at(-1)!.message).toContain('the arbor needs 42 kg more, and the bridge has 0 kg left');
   });
 
   it('warns, but plans, when the bridge is short by less than the rope lock holds', () => {
     const r = planChange({ ...twoDrapes, add: [{ id: 'truss', massKg: 27 }], bridgeStock: { full: 1 } });
     expect(r.steps.length).toBeGreaterThan(0);
     expect(r.warnings).toMatchObject([{ severity: 'warning', code: 'not-balanced' }]);
+    expect(r.warnings[0].message).toContain('the arbor needs 18 kg more, the bridge has 0 kg left');
     expect(r.steps.at(-1)!.imbalanceAfterKg).toBe(18);
   });
 
@@ -100,6 +103,8 @@ describe('planChange: worked cases', () => {
     const r = planChange({ ...twoDrapes, add: [{ id: 'truss', massKg: 36 }], bridgeStock: { full: 10 }, arborCapacityKg: 30 + 36 + 9 });
     expect(r.steps).toEqual([]);
     expect(r.warnings.at(-1)).toMatchObject({ severity: 'error', code: 'arbor-full' });
+    // Worked by hand: 66 kg on the arbor, room for one 9 kg brick under 75 kg; 36 - 9 = 27 kg still needed.
+    expect(r.warnings.at(-1)!.message).toContain('it would have to carry 102 kg, 27 kg more than now, and its capacity is 75 kg');
   });
 
   it('removes before it adds, even when asked to swap a piece', () => {
