@@ -118,6 +118,7 @@ export function planSession(schedule: Pick<ScheduleView, 'venue' | 'lineSets' | 
       ropeLockLimitKg: schedule.venue.settings.ropeLockLimitKg,
       arborCapacityKg: ls.arborCapacityKg,
       units: schedule.venue.units,
+      spreaderSpacingM: schedule.venue.settings.spreaderPlateEveryM,
     };
     const result = planChange(input);
     bridgeStock = result.final.bridgeStock;

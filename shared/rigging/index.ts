@@ -10,3 +10,4 @@ export * from './plan';
 export * from './check';
 export * from './correct';
 export * from './slack';
+export * from './spreader';

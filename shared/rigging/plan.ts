@@ -14,6 +14,7 @@
 import { applyStep, bricksMassKg, loadImbalanceKg } from './apply';
 import { chooseBricks, chooseBricksAtLeast, MASS_TOLERANCE_KG, type BrickStock } from './bricks';
 import { planInputErrors } from './plan-validate';
+import { spreaderPlatesAt } from './spreader';
 import type { BrickCounts, BrickType, LineSetLoad, PlanInput, PlanResult, PlanStep, PlanWarning } from './types';
 import { formatMass } from './units';
 
@@ -50,7 +51,7 @@ class PlanBuilder {
   bridge: BrickCounts;
   readonly steps: PlanStep[] = [];
 
-  constructor(input: PlanInput, private readonly brickTypes: BrickType[]) {
+  constructor(input: PlanInput, private readonly brickTypes: BrickType[], private readonly spreaderSpacingM?: number) {
     this.load = {
       purchase: input.purchase,
       pipeKg: input.pipeKg,
@@ -70,7 +71,11 @@ class PlanBuilder {
   }
 
   push(step: Omit<PlanStep, 'imbalanceAfterKg'>): void {
-    const full = { ...step, imbalanceAfterKg: 0 };
+    const full: PlanStep = { ...step, imbalanceAfterKg: 0 };
+    if ((step.kind === 'add-bricks' || step.kind === 'remove-bricks') && step.bricks && this.spreaderSpacingM !== undefined) {
+      const at = spreaderPlatesAt(step.kind, this.load.bricks, step.bricks, this.brickTypes, this.spreaderSpacingM);
+      if (at?.length) full.spreaderPlatesAt = at;
+    }
     this.load = applyStep(this.load, full, this.brickTypes);
     full.imbalanceAfterKg = tidyKg(this.imbalanceKg());
     this.steps.push(full);
@@ -115,7 +120,7 @@ export function planChange(input: PlanInput): PlanResult {
   if (invalid.length) return refuse(input, invalid);
 
   const { brickTypes, purchase, ropeLockLimitKg, arborCapacityKg } = input;
-  const plan = new PlanBuilder(input, brickTypes);
+  const plan = new PlanBuilder(input, brickTypes, input.spreaderSpacingM);
   const warnings: PlanWarning[] = [];
   const error = (code: string, message: string) => refuse(input, [...warnings, { severity: 'error', code, message }]);
 

@@ -56,6 +56,12 @@ export interface PlanStep {
   massKg?: number;
   /** On remove-bricks / add-bricks. */
   bricks?: BrickCounts;
+  /**
+   * On a brick step that passes a spreader plate: the counts within the step after which a plate goes on
+   * (loading) or comes off (unloading), in the order the bricks are handled (see spreader.ts). Absent
+   * when the step passes none or a brick height is unknown.
+   */
+  spreaderPlatesAt?: number[];
   imbalanceAfterKg: number;
 }
 
@@ -73,6 +79,8 @@ export interface PlanInput extends LineSetLoad {
   arborCapacityKg?: number;
   /** Units for the numbers in warnings; metric when not given. */
   units?: Units;
+  /** Stack height between spreader plates; when given (and brick heights are known), brick steps say where plates go. */
+  spreaderSpacingM?: number;
 }
 
 /** A message a person can read; `error` means the plan must not be run. */

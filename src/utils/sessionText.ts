@@ -3,7 +3,7 @@
  * The sentences that do not (what must happen next, log lines) come from shared/protocol/session.
  */
 import { utcOffsetName } from '@shared/protocol/time-zone';
-import { formatMass, KG_PER_LB, type BrickCounts, type BrickType, type PlanStep, type Units } from '@shared/rigging';
+import { brickRuns, formatMass, KG_PER_LB, type BrickCounts, type BrickType, type PlanStep, type Units } from '@shared/rigging';
 
 /** Below this the set reads as balanced (the same threshold as the session's own words). */
 export const BALANCED_WITHIN_KG = 0.05;
@@ -64,10 +64,42 @@ export function bricksWords(bricks: BrickCounts | undefined, brickTypes: BrickTy
   return parts.length ? `${parts.slice(0, -1).join(', ')}${parts.length > 1 ? ' and ' : ''}${parts.at(-1)} bricks` : 'no bricks';
 }
 
-/** The big line on a loader's screen: "Pull 2 bricks, 20 lb each". */
-export function brickStepWords(step: PlanStep, brickTypes: BrickType[], units: Units): string {
+function brickStepHead(step: PlanStep, brickTypes: BrickType[], units: Units): string {
   const verb = step.kind === 'add-bricks' ? 'Load' : 'Pull';
   return `${verb} ${bricksWords(step.bricks, brickTypes, units)}`;
+}
+
+/**
+ * Where a brick step's spreader plates go, in the order the loaders work: "24, place a spreader plate,
+ * then 21 more"; "take off a spreader plate, then pull 8". Empty when the step passes no plate.
+ */
+export function spreaderPlateWords(step: PlanStep, brickTypes: BrickType[]): string {
+  if (!step.spreaderPlatesAt?.length || !step.bricks) return '';
+  const loading = step.kind === 'add-bricks';
+  const plate = loading ? 'place a spreader plate' : 'take off a spreader plate';
+  const count = (bricks: BrickCounts) => {
+    const entries = countsOf(bricks);
+    if (brickTypes.length <= 1) return String(entries.reduce((sum, [, n]) => sum + n, 0));
+    const parts = entries.map(([type, n]) => `${n} ${type}`);
+    return `${parts.slice(0, -1).join(', ')}${parts.length > 1 ? ' and ' : ''}${parts.at(-1)}`;
+  };
+  const items: string[] = [];
+  let bricksSoFar = false;
+  for (const run of brickRuns(step.bricks, brickTypes, step.spreaderPlatesAt)) {
+    if (countsOf(run.bricks).length) {
+      items.push(bricksSoFar ? `${count(run.bricks)} more` : items.length ? `${loading ? 'load' : 'pull'} ${count(run.bricks)}` : count(run.bricks));
+      bricksSoFar = true;
+    }
+    if (run.plateAfter) items.push(plate);
+  }
+  if (items.length > 1) items[items.length - 1] = `then ${items[items.length - 1]}`;
+  return items.join(', ');
+}
+
+/** The big line on a loader's screen: "Pull 2 bricks, 20 lb each", with where any spreader plate goes. */
+export function brickStepWords(step: PlanStep, brickTypes: BrickType[], units: Units): string {
+  const plates = spreaderPlateWords(step, brickTypes);
+  return `${brickStepHead(step, brickTypes, units)}${plates ? `: ${plates}` : ''}`;
 }
 
 /** "14 bricks" or "14 bricks: 12 full, 2 half". */
@@ -108,7 +140,10 @@ export function stepWords(step: PlanStep, brickTypes: BrickType[], units: Units,
   switch (step.kind) {
     case 'remove-bricks':
     case 'add-bricks':
-      return `${brickStepWords(step, brickTypes, units)}${piece ? ` for ${piece}` : ''}`;
+    {
+      const plates = spreaderPlateWords(step, brickTypes);
+      return `${brickStepHead(step, brickTypes, units)}${piece ? ` for ${piece}` : ''}${plates ? `: ${plates}` : ''}`;
+    }
     case 'remove-piece':
       return `Take ${piece ?? 'the piece'} off the batten`;
     case 'add-piece':
