@@ -180,7 +180,8 @@ export function createApp({ config, db, logger, redis, setupCode = null }: AppDe
   }
   app.use(errorHandler(logger, config.jsonLimit));
 
-  io = createIo(httpServer, session.middleware, passport, [sessionSocketFeature(sessions, presence, logger)], {
+  const sessionEvents = sessionSocketFeature(sessions, presence, logger);
+  io = createIo(httpServer, session.middleware, passport, [sessionEvents], {
     signInLifetimeMs: config.sessionAbsoluteMs,
     origin: originPolicy,
     eventsPerSecond: config.socketEventsPerSecond,
@@ -213,6 +214,7 @@ export function createApp({ config, db, logger, redis, setupCode = null }: AppDe
       redis?.off('ready', onRedisBack);
       await mail.stop();
       await io.close();
+      await sessionEvents.drain();
       if (httpServer.listening) await new Promise<void>((r) => httpServer.close(() => r()));
       await session.close();
     },

@@ -25,8 +25,13 @@ function safeAck<T>(ack: unknown): (res: Ack<T>) => void {
 }
 
 /** Socket events of live sessions: validate, decide (in the service's transaction), acknowledge; broadcast follows commit. */
-export function sessionSocketFeature(sessions: SessionsService, presence: Presence, logger: Logger): SocketFeature {
-  return (io, socket) => {
+/**
+ * The session events of a socket. `drain` waits for the presence updates of sockets that just went:
+ * on shutdown they must be out before the broadcast layer (Redis) closes under them.
+ */
+export function sessionSocketFeature(sessions: SessionsService, presence: Presence, logger: Logger): SocketFeature & { drain(): Promise<void> } {
+  const leaving = new Set<Promise<void>>();
+  const feature: SocketFeature = (io, socket) => {
     const user = () => socket.data.user;
 
     const announcePresence = async (sessionId: number) => {
@@ -85,9 +90,14 @@ export function sessionSocketFeature(sessions: SessionsService, presence: Presen
       watched = [...socket.rooms].filter((r) => r.startsWith('loading:')).map((r) => Number(r.slice('loading:'.length)));
     });
     socket.on('disconnect', () => {
-      for (const sessionId of watched) void left(sessionId).catch(() => {});
+      for (const sessionId of watched) {
+        const update = left(sessionId).catch(() => {});
+        leaving.add(update);
+        void update.finally(() => leaving.delete(update));
+      }
     });
   };
+  return Object.assign(feature, { drain: async () => { await Promise.all([...leaving]); } });
 }
 
 /** The log entries that change a venue's list of running sessions (its phase words: gathering, loading). */
