@@ -11,6 +11,7 @@ import { bricksMassKg } from './apply';
 import { chooseBricks, chooseBricksAtLeast, type BrickStock } from './bricks';
 import type { BrickCounts, BrickType, PlanStep, PlanWarning, Purchase, Units } from './types';
 import { formatMass } from './units';
+import { spreaderPlatesAt } from './spreader';
 
 /** Slack so float noise never pulls or adds a whole brick, the same as the planner's. */
 const SLACK_KG = 4e-7;
@@ -33,6 +34,8 @@ export interface CorrectionInput {
   /** The set is tied off at the rail now (it must be when the measurement is beyond the rope lock). */
   tiedOff: boolean;
   units?: Units;
+  /** Stack height between spreader plates: the brick step then says where each plate goes on or comes off. */
+  spreaderSpacingM?: number;
 }
 
 export interface CorrectionResult {
@@ -49,6 +52,13 @@ export interface CorrectionResult {
 
 const stockOf = (counts: BrickCounts, brickTypes: BrickType[]): BrickStock[] =>
   brickTypes.map((b) => ({ type: b.type, massKg: b.massKg, count: counts[b.type] ?? 0 }));
+
+/** A correction's brick step with its spreader plates, as `planChange` places them, when the spacing and heights are known. */
+function withPlates(input: CorrectionInput, step: PlanStep & { kind: 'add-bricks' | 'remove-bricks'; bricks: BrickCounts }): PlanStep {
+  if (input.spreaderSpacingM === undefined) return step;
+  const at = spreaderPlatesAt(step.kind, input.bricks, step.bricks, input.brickTypes, input.spreaderSpacingM);
+  return at?.length ? { ...step, spreaderPlatesAt: at } : step;
+}
 
 /**
  * Which bricks to add or take off to correct a measured imbalance, within the bridge stock and the
@@ -81,7 +91,7 @@ export function correctionSteps(input: CorrectionInput): CorrectionResult {
     const roomKg = input.arborCapacityKg === undefined ? Infinity : Math.max(0, input.arborCapacityKg - arborSideKg);
     const pick = chooseBricks(Math.min(wantedKg, roomKg) + SLACK_KG, stockOf(input.bridgeStock, brickTypes));
     expectedKg = measuredKg - pick.totalKg / purchase;
-    if (pick.totalKg > 0) work.push({ kind: 'add-bricks', bricks: pick.picks, imbalanceAfterKg: tidy(expectedKg) });
+    if (pick.totalKg > 0) work.push(withPlates(input, { kind: 'add-bricks', bricks: pick.picks, imbalanceAfterKg: tidy(expectedKg) }));
     if (expectedKg > ropeLockLimitKg + SLACK_KG || (pick.totalKg === 0 && wantedKg >= lightestKg - SLACK_KG)) {
       const onBridgeKg = bricksMassKg(input.bridgeStock, brickTypes);
       const why = roomKg < wantedKg - SLACK_KG
@@ -102,7 +112,7 @@ export function correctionSteps(input: CorrectionInput): CorrectionResult {
       return fail('cannot-correct', `It needs ${show(needKg)} of bricks off the arbor, but the arbor holds only ${show(onArborKg)} of bricks: the empty arbor outweighs the batten. Keep it tied off and check with a qualified rigger.`);
     }
     expectedKg = measuredKg + pick.totalKg / purchase;
-    if (pick.totalKg > 0) work.push({ kind: 'remove-bricks', bricks: pick.picks, imbalanceAfterKg: tidy(expectedKg) });
+    if (pick.totalKg > 0) work.push(withPlates(input, { kind: 'remove-bricks', bricks: pick.picks, imbalanceAfterKg: tidy(expectedKg) }));
     if (expectedKg > ropeLockLimitKg + SLACK_KG) {
       return fail('cannot-correct', `Taking off the ${show(pick.totalKg)} of bricks that end it pipe-heavy leaves it ${show(expectedKg)} pipe-heavy, more than the rope lock holds (${show(ropeLockLimitKg)}): the bricks are too coarse. Keep it tied off and check with a qualified rigger.`);
     }

@@ -72,7 +72,7 @@ export class PracticeService {
       title: title.slice(0, 160),
       role: input.role,
       you: { personId: user.id, name: user.name },
-      session: { lineSets, settings: { minCrew: venue.settings.minCrew, reAlertSeconds: venue.settings.reAlertSeconds, units: venue.units } },
+      session: { lineSets, settings: { minCrew: venue.settings.minCrew, reAlertSeconds: venue.settings.reAlertSeconds, units: venue.units, spreaderSpacingM: venue.settings.spreaderPlateEveryM } },
     };
     try {
       createSessionState(setup.session);

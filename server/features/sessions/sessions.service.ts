@@ -85,7 +85,7 @@ export class SessionsService {
             ...(p.input.arborCapacityKg !== undefined ? { arborCapacityKg: p.input.arborCapacityKg } : {}),
           })),
           // The venue's units go with the session: every sentence it writes (corrections, refusals, the log) uses them.
-          settings: { minCrew: venue.settings.minCrew, reAlertSeconds: venue.settings.reAlertSeconds, units: venue.units },
+          settings: { minCrew: venue.settings.minCrew, reAlertSeconds: venue.settings.reAlertSeconds, units: venue.units, spreaderSpacingM: venue.settings.spreaderPlateEveryM },
           // The bridge as the plan starts from; every brick step moves it, and corrections load from it.
           bridgeStock: { ...planned[0]?.input.bridgeStock },
         });

@@ -169,6 +169,8 @@ export const sessionSettingsSchema = z.object({
    * Sessions stored before it was kept have none and were written in pounds: see sessionUnits.
    */
   units: z.enum(['imperial', 'metric']).optional(),
+  /** Stack height between spreader plates (venue setting), for the steps of a correction; none in older sessions. */
+  spreaderSpacingM: z.number().positive().optional(),
 });
 export type SessionSettings = z.infer<typeof sessionSettingsSchema>;
 

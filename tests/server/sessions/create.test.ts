@@ -112,6 +112,8 @@ describe('opening a session from the schedule', () => {
     const [row] = await t.database.owner.query('SELECT state FROM loading_session WHERE id = ?', [res.body.session.id]);
     const state = typeof row.state === 'string' ? JSON.parse(row.state) : row.state;
     expect(state.settings.units).toBe('metric');
+    // And its spreader-plate spacing (the demo's 24 in, common practice), for the steps of a correction.
+    expect(state.settings.spreaderSpacingM).toBeCloseTo(24 * 0.0254, 9);
     // A log sentence with a weight in it, read against that state, is in kilograms.
     expect(describeEntry({ kind: 'step-confirmed', role: 'loader', personName: 'Sam', lineSetId: state.lineSets[0].id, details: { imbalanceKg: 4.5, text: 'loaded 4 bricks' } }, state))
       .toBe('Sam loaded 4 bricks on Line set 35 (Spare pipe): now 4.5 kg pipe-heavy.');

@@ -31,6 +31,19 @@ describe('correctionSteps', () => {
     expect(r.expectedKg).toBeCloseTo(0, 6);
   });
 
+  it('says where a spreader plate goes when the correction bricks cross a multiple of the spacing (24 in: common practice)', () => {
+    const IN = 0.0254; // 1 in = 25.4 mm exactly (international yard, 1959)
+    const stacked = bricks20.map((b) => ({ ...b, heightM: (b.type === 'full' ? 2 : 1) * IN }));
+    // Ten 2 in full bricks stand 20 in; 30 lb pipe-heavy adds one full (to 22 in) then one half (to 23 in): no plate yet.
+    expect(correctionSteps({ ...base, brickTypes: stacked, measuredKg: 30 * LB, spreaderSpacingM: 24 * IN }).steps[0].spreaderPlatesAt).toBeUndefined();
+    // 50 lb adds two full bricks (to 24 in: the plate goes on after the 2nd) and one half.
+    const r = correctionSteps({ ...base, brickTypes: stacked, measuredKg: 50 * LB, ropeLockLimitKg: 60 * LB, spreaderSpacingM: 24 * IN });
+    expect(r.steps[0].bricks).toEqual({ full: 2, half: 1 });
+    expect(r.steps[0].spreaderPlatesAt).toEqual([2]);
+    // Without the spacing (sessions kept before it was), no plates are named.
+    expect(correctionSteps({ ...base, brickTypes: stacked, measuredKg: 50 * LB, ropeLockLimitKg: 60 * LB }).steps[0].spreaderPlatesAt).toBeUndefined();
+  });
+
   it('at double purchase adds twice the measured weight (TRADE.md: the arbor carries twice)', () => {
     const r = correctionSteps({ ...base, purchase: 2, measuredKg: 20 * LB });
     expect(bricksMassKg(r.steps[0].bricks!, bricks20)).toBeCloseTo(40 * LB, 9);

@@ -107,6 +107,7 @@ export const TESTING_RULES: RulesFor<'record-test' | 'plan-correction'> = {
         ropeLockLimitKg: ls.ropeLockLimitKg,
         tiedOff: ls.tiedOff,
         units: sessionUnits(state),
+        ...(state.settings.spreaderSpacingM !== undefined ? { spreaderSpacingM: state.settings.spreaderSpacingM } : {}),
       });
       const error = r.warnings.find((w) => w.severity === 'error');
       if (error) return refuse(`${capital(lineSetLabel(ls.name))} cannot be corrected by Railcall: ${error.message}`, { lineSetId: ls.id });
