@@ -72,14 +72,26 @@ export function stepRole(step: PlanStep): SessionRole | null {
   return null;
 }
 
+/** ", placing a spreader plate after bricks 12 and 24" (loading) or ", taking off a spreader plate before brick 7" (unloading). */
+function platesText(step: PlanStep): string {
+  const at = step.spreaderPlatesAt;
+  if (!at?.length) return '';
+  const loading = step.kind === 'add-bricks';
+  // Loading: the plate goes on after the count; unloading: it comes off before the next brick.
+  const bricks = at.map((n) => String(loading ? n : n + 1));
+  const list = bricks.length === 1 ? bricks[0] : `${bricks.slice(0, -1).join(', ')} and ${bricks.at(-1)}`;
+  const plates = at.length === 1 ? 'a spreader plate' : `${at.length} spreader plates`;
+  return `, ${loading ? 'placing' : 'taking off'} ${plates} ${loading ? 'after' : 'before'} brick${at.length === 1 ? '' : 's'} ${list}`;
+}
+
 type PastOr = (present: string, past: string) => string;
 function removeBricksText(ls: LineSetState, index: number, pastOr: PastOr): string {
   const piece = pieceForBricks(ls, index);
-  return `${pastOr('pull', 'pulled')} ${bricksText(ls.steps[index].bricks, ls.brickTypes.length)}${piece ? ` for ${pieceName(ls, piece)}` : ' from the arbor'}`;
+  return `${pastOr('pull', 'pulled')} ${bricksText(ls.steps[index].bricks, ls.brickTypes.length)}${piece ? ` for ${pieceName(ls, piece)}` : ' from the arbor'}${platesText(ls.steps[index])}`;
 }
 function addBricksText(ls: LineSetState, index: number, pastOr: PastOr): string {
   const piece = pieceForBricks(ls, index);
-  return `${pastOr('load', 'loaded')} ${bricksText(ls.steps[index].bricks, ls.brickTypes.length)}${piece ? ` for ${pieceName(ls, piece)}` : ' onto the arbor'}`;
+  return `${pastOr('load', 'loaded')} ${bricksText(ls.steps[index].bricks, ls.brickTypes.length)}${piece ? ` for ${pieceName(ls, piece)}` : ' onto the arbor'}${platesText(ls.steps[index])}`;
 }
 
 /** A step as an instruction without a subject: "pull 2 bricks for Drape A", "take Drape A off the batten". */
@@ -92,8 +104,8 @@ export function stepText(ls: LineSetState, index: number, tense: 'do' | 'done' =
     case 'add-bricks':
       if (correctionOf(ls, index)) {
         return step.kind === 'add-bricks'
-          ? `${pastOr('load', 'loaded')} ${bricksText(step.bricks, typeCount)} onto the arbor of ${lineSetLabel(ls.name)} to correct its balance`
-          : `${pastOr('pull', 'pulled')} ${bricksText(step.bricks, typeCount)} off the arbor of ${lineSetLabel(ls.name)} to correct its balance`;
+          ? `${pastOr('load', 'loaded')} ${bricksText(step.bricks, typeCount)} onto the arbor of ${lineSetLabel(ls.name)} to correct its balance${platesText(step)}`
+          : `${pastOr('pull', 'pulled')} ${bricksText(step.bricks, typeCount)} off the arbor of ${lineSetLabel(ls.name)} to correct its balance${platesText(step)}`;
       }
       return step.kind === 'add-bricks' ? addBricksText(ls, index, pastOr) : removeBricksText(ls, index, pastOr);
     case 'remove-piece':
