@@ -25,7 +25,7 @@ export const POSITION_ORIGIN = 'measured from the stage-left end of the batten';
 export const DEFAULT_CAUTION =
   'Railcall computes weights and capacities as a planning aid. The venue\'s ratings, its own procedures and a qualified rigger decide; counterweight is the last thing loaded and the first unloaded.';
 
-/** Settings a technical director tunes per venue. Defaults: TRADE.md (common practice). */
+/** Settings a technical director tunes per venue. Defaults: common practice. */
 export interface VenueSettingsView {
   /** Out-of-balance a rope lock holds, at the batten. Default 50 lb. */
   ropeLockLimitKg: number;

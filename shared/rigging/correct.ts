@@ -4,7 +4,7 @@
  * the bricks allow, never past it towards arbor-heavy.
  *
  * The measured figure is the truth here, not the computed one: the schedule's weights were off by
- * the difference, so every step's balance is reckoned from the measurement (TRADE.md: a test result
+ * the difference, so every step's balance is reckoned from the measurement (common practice: a test result
  * is what the rail found, beside what was computed).
  */
 import { bricksMassKg } from './apply';

@@ -1,7 +1,7 @@
 /**
  * Planning a change of load on a line set, step by step, so the set is never arbor-heavy.
  *
- * Rules (TRADE.md, "Order of operations"):
+ * Rules (order of operations: stage rigging handbooks and school crew guides; common practice):
  * - Removals first, then additions, piece by piece in the order asked.
  * - Unloading a piece: its bricks come off the arbor, then the piece comes off the batten.
  * - Loading a piece: the piece goes on the batten, then its bricks go on the arbor.

@@ -12,12 +12,12 @@ import {
 } from '@shared/protocol/session';
 import type { Units } from '@shared/rigging';
 
-/** "10 ft" or "3 m": the distance to keep from the rail while the loaders work (TRADE.md). */
+/** "10 ft" or "3 m": the distance to keep from the rail while the loaders work (common practice). */
 export const railDistance = (units: Units) => (units === 'imperial' ? '10 ft' : '3 m');
 
 /**
  * While the loaders work, nobody is at the rail or under the gallery; the rail operator still keeps
- * the tie-off attended, by watching it (and the rail) from that distance (TRADE.md, people and calls).
+ * the tie-off attended, by watching it (and the rail) from that distance (common practice).
  * One sentence says both, so the two rules never read as contradicting each other.
  */
 export const railClearCaution = (units: Units, tiedOff = false) =>

@@ -17,7 +17,7 @@ import SchedulePage from '@/pages/SchedulePage.vue';
 import LineSetEditDialog from '@/components/schedule/LineSetEditDialog.vue';
 import { useAuthStore } from '@/stores/auth';
 
-// Exact definitions: 1 lb = 0.45359237 kg, 1 ft = 0.3048 m (NIST SP 811; TRADE.md).
+// Exact definitions: 1 lb = 0.45359237 kg, 1 ft = 0.3048 m (NIST SP 811).
 const LB = 0.45359237;
 const FT = 0.3048;
 
@@ -103,7 +103,7 @@ describe('SchedulePage', () => {
     expect(items[0].text()).toContain('1 House curtain');
     expect(items[0].text()).toContain('House drape');
     expect(items[0].text()).toMatch(/pipe-heavy by 10 lb/i);
-    // Within the 50 lb rope-lock limit (TRADE.md): no badge, not marked.
+    // Within the 50 lb rope-lock limit (common practice): no badge, not marked.
     expect(items[0].classes()).not.toContain('rc-alert-row');
     expect(items[1].text()).toContain('Nothing hung');
     expect(items[1].text()).toContain('Out of service');

@@ -215,8 +215,8 @@ describe('editing the schedule', () => {
       await td.put('/api/venue').send({ name: 'Larkspur Playhouse', units: 'imperial', settings: DEFAULT_SETTINGS });
     });
 
-    it('default to TRADE.md: 50 lb rope lock, 10 ft lift line spacing, 24 in spreader plates', () => {
-      // Rope lock 50 lb (common practice), lift lines at most 10 ft apart, a plate every 24 in (TRADE.md).
+    it('default to common practice: 50 lb rope lock, 10 ft lift line spacing, 24 in spreader plates', () => {
+      // Rope lock 50 lb (common practice), lift lines at most 10 ft apart, a plate every 24 in (common practice).
       expect(DEFAULT_SETTINGS.ropeLockLimitKg).toBe(50 * 0.45359237);
       expect(DEFAULT_SETTINGS.maxSpanM).toBeCloseTo(10 * 0.3048, 12);
       expect(DEFAULT_SETTINGS.spreaderPlateEveryM).toBeCloseTo(24 * 0.0254, 12);

@@ -3,7 +3,7 @@ import type { UnitSystem } from '@shared/protocol/people';
 import { DEFAULT_SETTINGS, type VenueSettingsView } from '@shared/protocol/schedule';
 import { processTimeZone } from '@shared/protocol/time-zone';
 
-/** Settings a technical director tunes per venue; defaults are common practice (see TRADE.md). */
+/** Settings a technical director tunes per venue; defaults are common practice. */
 export type VenueSettings = VenueSettingsView;
 
 /**

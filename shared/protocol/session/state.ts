@@ -189,7 +189,7 @@ export class SessionPlanError extends Error {
  * A new session from the plan. Replays every line set's steps through applyStep so a plan that
  * cannot happen never reaches the rail: it throws SessionPlanError when a step cannot be applied,
  * when any step would leave the set arbor-heavy (the line set stays pipe-heavy, so a runaway has the
- * weight low: TRADE.md, order of operations), or when a step goes beyond the rope lock limit and the
+ * weight low: order of operations, common practice), or when a step goes beyond the rope lock limit and the
  * plan has no tie-off.
  */
 export function createSessionState(input: CreateSessionInput): SessionState {

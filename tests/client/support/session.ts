@@ -11,9 +11,9 @@ import {
 } from '@shared/protocol/session';
 import type { BrickType, LineSetLoad, PlanStep } from '@shared/rigging';
 
-/** 1 lb = 0.45359237 kg exactly (1959 international yard and pound agreement; TRADE.md). */
+/** 1 lb = 0.45359237 kg exactly (1959 international yard and pound agreement). */
 export const LB = 0.45359237;
-/** The rope lock limit: a venue setting, 50 lb by default (common practice; TRADE.md). */
+/** The rope lock limit: a venue setting, 50 lb by default (common practice). */
 export const ROPE_LOCK_KG = 50 * LB;
 
 export const brickTypes: BrickType[] = [{ type: 'full', massKg: 20 * LB }];

@@ -25,7 +25,7 @@ describe('a full unload of two drapes from line set 7', () => {
 
   it('plans pull, strike, pull, strike, test: no tie-off for a 40 lb drape under a 50 lb rope lock', async () => {
     const { body } = await request(t.url).get(`/api/sessions/${sessionId}`).set('Cookie', crew.sm.cookie);
-    // Order of operations (TRADE.md): bricks off the arbor before each piece comes off the batten.
+    // Order of operations (common practice): bricks off the arbor before each piece comes off the batten.
     expect(body.state.lineSets[0].steps.map((s: { kind: string }) => s.kind))
       .toEqual(['remove-bricks', 'remove-piece', 'remove-bricks', 'remove-piece', 'test-balance']);
   });

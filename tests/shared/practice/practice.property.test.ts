@@ -78,7 +78,7 @@ function checkTap(prev: SessionState, next: SessionState, type: string, byLead: 
   }
   if (['call-move', 'confirm-locked', 'confirm-tie-off', 'confirm-untie', 'record-test', 'release-hold', 'begin'].includes(type)) expect(byLead).toBe(true);
   for (const after of next.lineSets) {
-    // Never arbor-heavy after a work step; beyond the rope lock only while tied off (TRADE.md order of operations).
+    // Never arbor-heavy after a work step; beyond the rope lock only while tied off (order of operations: stage rigging handbooks and school crew guides; common practice).
     const lastDone = after.done.lastIndexOf(true);
     if (lastDone >= 0 && isWorkStep(after.steps[lastDone])) expect(after.imbalanceKg).toBeGreaterThanOrEqual(-ARBOR_HEAVY_TOLERANCE_KG);
     if (after.stage === 'rail-clear' && Math.abs(after.imbalanceKg) > after.ropeLockLimitKg) expect(after.tiedOff).toBe(true);

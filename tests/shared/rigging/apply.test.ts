@@ -14,7 +14,7 @@ const load: LineSetLoad = {
 };
 
 describe('loadImbalanceKg', () => {
-  it('is batten side minus arbor side over purchase (TRADE.md balance definition)', () => {
+  it('is batten side minus arbor side over purchase (balance is judged at the batten: the common trade definition)', () => {
     expect(loadImbalanceKg(load, brickTypes)).toBe(0);
     expect(loadImbalanceKg({ ...load, bricks: { full: 1 } }, brickTypes)).toBe(9);
   });

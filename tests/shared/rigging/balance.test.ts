@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest';
 import { balancingArborKg, imbalanceKg, lbToKg } from '@shared/rigging';
 
 describe('imbalanceKg', () => {
-  it('is batten side minus arbor side on single purchase; positive is pipe-heavy (TRADE.md balance definition)', () => {
+  it('is batten side minus arbor side on single purchase; positive is pipe-heavy (balance is judged at the batten: the common trade definition)', () => {
     expect(imbalanceKg({ battenSideKg: 100, arborSideKg: 90, purchase: 1 })).toBe(10);
     expect(imbalanceKg({ battenSideKg: 100, arborSideKg: 110, purchase: 1 })).toBe(-10);
   });

@@ -4,9 +4,9 @@ import { applyStep, bricksMassKg, correctionSteps, type BrickType, type Correcti
 
 /** 1 lb = 0.45359237 kg exactly (international yard and pound agreement, 1959; NIST SP 811). */
 const LB = 0.45359237;
-/** Full and half bricks of 20 and 10 lb: one of the pairs in use (TRADE.md, more check values). */
+/** Full and half bricks of 20 and 10 lb: one of the pairs in use (trade references: 40/20, 30/15 and 20/10 lb pairs are in use). */
 const bricks20: BrickType[] = [{ type: 'full', massKg: 20 * LB }, { type: 'half', massKg: 10 * LB }];
-/** Rope lock default, 50 lb (common practice; TRADE.md order of operations). */
+/** Rope lock default, 50 lb (common practice). */
 const LOCK = 50 * LB;
 
 const base: CorrectionInput = {
@@ -44,7 +44,7 @@ describe('correctionSteps', () => {
     expect(correctionSteps({ ...base, brickTypes: stacked, measuredKg: 50 * LB, ropeLockLimitKg: 60 * LB }).steps[0].spreaderPlatesAt).toBeUndefined();
   });
 
-  it('at double purchase adds twice the measured weight (TRADE.md: the arbor carries twice)', () => {
+  it('at double purchase adds twice the measured weight (stage rigging handbooks: 2:1 double purchase)', () => {
     const r = correctionSteps({ ...base, purchase: 2, measuredKg: 20 * LB });
     expect(bricksMassKg(r.steps[0].bricks!, bricks20)).toBeCloseTo(40 * LB, 9);
   });

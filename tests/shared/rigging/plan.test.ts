@@ -37,7 +37,7 @@ describe('planChange: worked cases', () => {
     expect(r.final.bridgeStock.full).toBe(4);
   });
 
-  it('ties off first and unties before the balance test when a step passes the rope lock limit (TRADE.md: rope lock)', () => {
+  it('ties off first and unties before the balance test when a step passes the rope lock limit (rope lock: common practice)', () => {
     const r = planChange({ ...twoDrapes, add: [{ id: 'truss', massKg: 36 }], bridgeStock: { full: 4 } });
     expect(kinds(r)).toEqual(['tie-off', 'add-piece', 'add-bricks', 'untie', 'test-balance']);
     expect(r.steps[1]).toMatchObject({ pieceId: 'truss', massKg: 36, imbalanceAfterKg: 36 });

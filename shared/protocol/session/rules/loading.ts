@@ -54,7 +54,7 @@ export const LOADING_RULES: RulesFor<'confirm-tie-off' | 'call-clear-rail' | 'co
       ls.railClearAtMs = nowMs;
       return {
         ok: true,
-        // At least 10 ft from the rail and out from under the gallery, keeping watch (TRADE.md, people and calls).
+        // At least 10 ft from the rail and out from under the gallery, keeping watch (common practice).
         entries: [{ kind: 'rail-clear-confirmed', lineSetId: ls.id, details: { ...lineSetRef(ls), distanceFt: 10 } }],
       };
     },

@@ -39,7 +39,7 @@ export const TESTING_RULES: RulesFor<'record-test' | 'plan-correction'> = {
       }
       const wasFlagged = ls.flagged;
       const estimateKg = action.result === 'balanced' ? null : (action.estimateKg ?? null);
-      // Beyond what the rope lock holds, the set must be tied off before anyone moves on (TRADE.md).
+      // Beyond what the rope lock holds, the set must be tied off before anyone moves on (common practice).
       const beyondLock = estimateKg !== null && estimateKg > ls.ropeLockLimitKg;
       if (beyondLock && !action.tiedOff) {
         return refuse(

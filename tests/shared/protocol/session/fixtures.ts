@@ -11,16 +11,16 @@ import {
   type SessionState,
 } from '@shared/protocol/session';
 
-/** 1 lb = 0.45359237 kg exactly (international yard and pound agreement, 1959; TRADE.md). */
+/** 1 lb = 0.45359237 kg exactly (international yard and pound agreement, 1959). */
 export const LB_KG = 0.45359237;
-/** Rope lock limit: a venue setting, 50 lb by default (common practice; TRADE.md order of operations). */
+/** Rope lock limit: a venue setting, 50 lb by default (common practice). */
 export const ROPE_LOCK_LIMIT_KG = 50 * LB_KG;
 
 export const brickTypes: BrickType[] = [{ type: 'full', massKg: 9 }];
 
 /**
  * A balanced single-purchase line set with two 18 kg drapes and four 9 kg bricks: 66 kg each side.
- * Unloading pulls the bricks for a piece first, then takes the piece off (TRADE.md: counterweight is
+ * Unloading pulls the bricks for a piece first, then takes the piece off (common practice: counterweight is
  * the first thing unloaded), so the set only ever goes pipe-heavy, by 18 kg, inside the rope lock limit.
  */
 export const twoDrapeLoad: LineSetLoad = {
@@ -55,7 +55,7 @@ export const twoDrapeLineSet: LineSetInput = {
 
 /**
  * A 36 kg truss balanced by four bricks: pulling them leaves 36 kg pipe-heavy, beyond a 50 lb
- * (22.7 kg) rope lock, so the plan ties off first (TRADE.md: beyond the limit the set is tied off).
+ * (22.7 kg) rope lock, so the plan ties off first (common practice: beyond the limit the set is tied off).
  */
 export const trussLineSet: LineSetInput = {
   id: 'ls-12',

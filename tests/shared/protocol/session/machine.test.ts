@@ -16,7 +16,7 @@ import { Session, alex, jo, kit, lee, robin, sam, trussLineSet, twoDrapeLineSet,
 
 describe('createSessionState', () => {
   it('starts gathering, with default settings of 1 rail, 2 loaders, 1 deck and a 20 s re-alert', () => {
-    // At least three people: two loaders on the bridge and an operator at the rail (common practice; TRADE.md).
+    // At least three people: two loaders on the bridge and an operator at the rail (common practice).
     const state = createSessionState({ lineSets: [twoDrapeLineSet] });
     expect(state.phase).toBe('gathering');
     expect(state.settings).toEqual({ minCrew: { rail: 1, loader: 2, deck: 1 }, reAlertSeconds: 20 });
@@ -33,7 +33,7 @@ describe('createSessionState', () => {
   });
 
   it('refuses a plan that takes a piece off before its bricks, leaving the set arbor-heavy', () => {
-    // Unloading: remove bricks FIRST, then the load (TRADE.md order of operations).
+    // Unloading: remove bricks FIRST, then the load (order of operations: stage rigging handbooks and school crew guides; common practice).
     const steps: PlanStep[] = [
       { kind: 'remove-piece', pieceId: 'drape-a', imbalanceAfterKg: -18 },
       { kind: 'remove-bricks', bricks: { full: 2 }, imbalanceAfterKg: 0 },
@@ -42,7 +42,7 @@ describe('createSessionState', () => {
   });
 
   it('refuses a plan beyond the rope lock limit without a tie-off', () => {
-    // A rope lock holds a limited out-of-balance; beyond it the set is tied off (TRADE.md; 50 lb default, common practice).
+    // A rope lock holds a limited out-of-balance; beyond it the set is tied off (common practice; 50 lb default).
     const steps = trussLineSet.steps.filter((s) => s.kind !== 'tie-off' && s.kind !== 'untie');
     expect(() => createSessionState({ lineSets: [{ ...trussLineSet, steps }] })).toThrow(/rope lock/);
     expect(ROPE_LOCK_LIMIT_KG).toBeCloseTo(22.68, 2);
@@ -230,7 +230,7 @@ describe('tie-off and clearing the rail', () => {
     s.do(alex, { type: 'call-clear-rail' });
     expect(s.refused(lee, { type: 'confirm-rail-clear' }).code).toBe('forbidden');
     const d = s.do(jo, { type: 'confirm-rail-clear' });
-    // Stepped at least 10 ft away, keeping watch (common practice; TRADE.md people and calls).
+    // Stepped at least 10 ft away, keeping watch (common practice).
     expect(d.entries[0].details).toMatchObject({ distanceFt: 10 });
   });
 
@@ -265,7 +265,7 @@ describe('work steps', () => {
   });
 
   it('refuses a drape before its bricks, naming what must happen first', () => {
-    // Unloading: remove bricks from the arbor FIRST, then the load from the batten (TRADE.md order of operations).
+    // Unloading: remove bricks from the arbor FIRST, then the load from the batten (order of operations: stage rigging handbooks and school crew guides; common practice).
     const s = new Session().toRailClear();
     const r = s.refused(robin, { type: 'confirm-step', stepIndex: 1 });
     expect(r).toMatchObject({ code: 'refused', reason: 'The loaders must pull 2 bricks for Drape A first.' });
@@ -589,7 +589,7 @@ describe('a balance test beyond what the rope lock holds', () => {
   };
 
   it('is refused until the set is tied off, and then no other set is called until it is corrected', () => {
-    // The rope lock limit is 50 lb (22.68 kg): common practice default, TRADE.md.
+    // The rope lock limit is 50 lb (22.68 kg): common practice default.
     const s = unloaded();
     expect(s.refused(jo, { type: 'record-test', result: 'pipe-heavy', estimateKg: 30 }).reason).toMatch(/more out of balance than the rope lock holds \(50 lb/);
     const d = s.do(jo, { type: 'record-test', result: 'pipe-heavy', estimateKg: 30, tiedOff: true });

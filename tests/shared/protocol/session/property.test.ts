@@ -21,7 +21,7 @@ import {
 } from '@shared/protocol/session';
 import { ROPE_LOCK_LIMIT_KG, T0, alex, brickTypes, jo, kit, lee, robin, sam, trussLineSet, twoDrapeLineSet } from './fixtures';
 
-/** Loading: attach the load to the batten FIRST, then add bricks (TRADE.md order of operations). */
+/** Loading: attach the load to the batten FIRST, then add bricks (order of operations: stage rigging handbooks and school crew guides; common practice). */
 const hangLineSet: LineSetInput = {
   id: 'ls-3',
   name: '3',
@@ -198,7 +198,7 @@ describe('decide, under thousands of random actions from random people', () => {
             expect(actor.personId).toBe(prev.leadPersonId);
             expect(ls?.stage).not.toBe('rail-clear');
           }
-          // No "locked" before every deck and loader person has answered "clear" (TRADE.md people and calls).
+          // No "locked" before every deck and loader person has answered "clear" (call and response: common practice).
           if (action.type === 'confirm-locked') expect(notYetClear(prev)).toEqual([]);
           if (action.type === 'call-clear-rail' && ls?.needsTieOff) expect(ls.tiedOff).toBe(true);
           if (action.type === 'confirm-step' && ls) {
@@ -207,7 +207,7 @@ describe('decide, under thousands of random actions from random people', () => {
             expect(ls.stage).toBe('rail-clear');
             if (ls.needsTieOff) expect(ls.tiedOff).toBe(true);
             // One at a time, in plan order: bricks for a piece before that piece comes off,
-            // a piece hung before its bricks go on (TRADE.md order of operations).
+            // a piece hung before its bricks go on (order of operations: stage rigging handbooks and school crew guides; common practice).
             ls.steps.slice(0, action.stepIndex).forEach((s, i) => {
               if (isWorkStep(s)) expect(ls.done[i]).toBe(true);
             });
@@ -223,7 +223,7 @@ describe('decide, under thousands of random actions from random people', () => {
             stats.proxyClears += 1;
           }
           if (action.type === 'call-loading-complete' && ls) expect(nextWorkStepIndex(ls)).toBe(-1);
-          // A tie-off is never left unattended: no other set is called while one is tied off (TRADE.md).
+          // A tie-off is never left unattended: no other set is called while one is tied off (common practice).
           if (action.type === 'call-move') expect(prev.lineSets.some((l) => l.tiedOff)).toBe(false);
           if (action.type === 'record-test') stats.tested += 1;
           // A tested set is tested again only after its correction.

@@ -11,9 +11,9 @@ import { Session, alex, jo, kit, robin, sam } from './fixtures';
 
 /**
  * A whole unload of line set 7 (two 18 kg drapes, four 9 kg bricks, single purchase), in the
- * trade's order: the move call answered "clear" by everyone at risk (TRADE.md people and calls),
+ * trade's order: the move call answered "clear" by everyone at risk (call and response: common practice),
  * the rail cleared before loaders work, bricks pulled for each piece before that piece comes off
- * (TRADE.md order of operations), "loading complete", and the rail operator's balance test.
+ * (order of operations: stage rigging handbooks and school crew guides; common practice), "loading complete", and the rail operator's balance test.
  */
 describe('a two-drape unload, walked through', () => {
   it('runs from joining to finished, with the log reading as the calls', () => {
