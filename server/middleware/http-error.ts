@@ -29,8 +29,8 @@ export class HttpError extends Error {
   }
 }
 
-/** mysql2's codes for a database that cannot be reached or went away mid-query. */
-const DB_GONE = new Set(['ECONNREFUSED', 'ECONNRESET', 'ETIMEDOUT', 'EPIPE', 'PROTOCOL_CONNECTION_LOST', 'ER_SERVER_SHUTDOWN', 'ER_CON_COUNT_ERROR', 'ER_CONNECTION_KILLED', 'ER_LOCK_WAIT_TIMEOUT']);
+/** mysql2's codes for a database that cannot be reached, went away mid-query, or rolled the transaction back (a deadlock victim). */
+const DB_GONE = new Set(['ECONNREFUSED', 'ECONNRESET', 'ETIMEDOUT', 'EPIPE', 'PROTOCOL_CONNECTION_LOST', 'ER_SERVER_SHUTDOWN', 'ER_CON_COUNT_ERROR', 'ER_CONNECTION_KILLED', 'ER_LOCK_WAIT_TIMEOUT', 'ER_LOCK_DEADLOCK']);
 
 /**
  * The database is out of reach (restarting, failing over): answered 503 `unavailable` so phones keep

@@ -5,6 +5,7 @@ import type { MailView } from '@shared/protocol/mail';
 import type { PersonRow } from '@shared/protocol/people';
 import { MailQueue } from '../../server/features/mail/mail-queue';
 import { createLogger } from '../../server/logger';
+import { isDeadlock, retryOnDeadlock } from '../../server/db/retry';
 import { Phone, openDrapeUnload } from '../support/crew';
 import { signedIn, type Agent } from '../support/people';
 import { startMailTestApp, tokenIn, waitForMail } from '../support/mail';
@@ -169,6 +170,44 @@ describe('mail', () => {
       const sentCount = async () => Number((await m.t.database.owner.query("SELECT COUNT(*) AS n FROM mail_message WHERE subject = ? AND status = 'sent'", [subject]))[0].n);
       await waitFor(sentCount, (count) => count === 12);
       expect((await m.mailbox.list()).filter((x) => x.subject === subject)).toHaveLength(12);
+    });
+
+    it('runs a transaction again when the database picks it as a deadlock victim', async () => {
+      const ids: number[] = [];
+      await m.t.db.transaction(async (tx) => {
+        for (const address of ['lock-a@larkspur.example', 'lock-b@larkspur.example']) {
+          ids.push((await new MailQueue(m.t.db, m.mailConfig, createLogger('silent')).enqueue(tx, { venueId: null, kind: 'session-report', to: { name: '', address }, subject: 'lock', text: 'x' })).id);
+        }
+        // Out of every sender's reach, so only this test locks them.
+        await tx.query("UPDATE mail_message SET status = 'failed' WHERE id IN (?, ?)", ids);
+      });
+      // Two transactions lock the same two rows in opposite order: InnoDB rolls one back (errno 1213).
+      const crossing = () => {
+        let arrived = 0;
+        let release!: () => void;
+        const bothHoldOne = new Promise<void>((resolve) => { release = resolve; });
+        const run = (first: number, second: number, tries: number[]) => async () => {
+          tries.push(1);
+          await m.t.db.transaction(async (tx) => {
+            await tx.query('SELECT id FROM mail_message WHERE id = ? FOR UPDATE', [first]);
+            if (tries.length === 1 && ++arrived === 2) release();
+            if (tries.length === 1) await bothHoldOne;
+            await tx.query("UPDATE mail_message SET last_error = 'crossed' WHERE id = ?", [second]);
+          });
+        };
+        return { run };
+      };
+      const bare = crossing();
+      const bareResults = await Promise.allSettled([bare.run(ids[0], ids[1], [])(), bare.run(ids[1], ids[0], [])()]);
+      const refused = bareResults.filter((r) => r.status === 'rejected');
+      expect(refused).toHaveLength(1);
+      expect(isDeadlock((refused[0] as PromiseRejectedResult).reason)).toBe(true);
+
+      const retried = crossing();
+      const triesA: number[] = [];
+      const triesB: number[] = [];
+      await Promise.all([retryOnDeadlock(retried.run(ids[0], ids[1], triesA)), retryOnDeadlock(retried.run(ids[1], ids[0], triesB))]);
+      expect(triesA.length + triesB.length).toBe(3);
     });
   });
 

@@ -3,6 +3,7 @@ import { In, type DataSource, type EntityManager } from 'typeorm';
 import type { MailKind, MailView } from '@shared/protocol/mail';
 import type { MailConfig } from '../../config';
 import type { Logger } from '../../logger';
+import { retryOnDeadlock } from '../../db/retry';
 import { MailAttachmentRow, MailMessageRow } from './mail.entity';
 
 export interface OutgoingMail {
@@ -152,7 +153,8 @@ export class MailQueue {
 
   /** Marks claimed rows `sending` with a lease and commits at once: no lock is held while mail goes out. */
   private async claim(): Promise<MailMessageRow[]> {
-    return this.db.transaction(async (m) => {
+    // Two senders' claims can deadlock on the due index; the loser claims again.
+    return retryOnDeadlock(() => this.db.transaction(async (m) => {
       const now = new Date();
       const ids: { id: number }[] = await m.query(
         `SELECT id FROM mail_message
@@ -166,7 +168,7 @@ export class MailQueue {
         .set({ status: 'sending', leaseUntil: new Date(now.getTime() + LEASE_MS), attempts: () => 'attempts + 1' })
         .where({ id: In(list) }).execute();
       return m.getRepository(MailMessageRow).find({ where: { id: In(list) }, order: { id: 'ASC' } });
-    });
+    }));
   }
 
   private async sendOne(row: MailMessageRow): Promise<boolean> {
@@ -182,19 +184,19 @@ export class MailQueue {
         attachments: attachments.map((a) => ({ filename: a.filename, contentType: a.contentType, content: a.content })),
       });
       // Only the sender holding the lease records the outcome.
-      await repo.update({ id: row.id, status: 'sending' }, { status: 'sent', sentAt: new Date(), leaseUntil: null, lastError: null });
+      await retryOnDeadlock(() => repo.update({ id: row.id, status: 'sending' }, { status: 'sent', sentAt: new Date(), leaseUntil: null, lastError: null }));
       for (const listener of this.sentListeners) listener(row);
       return true;
     } catch (error) {
       const message = error instanceof Error ? error.message : String(error);
       const giveUp = row.attempts >= this.config.maxAttempts;
       const next = new Date(Date.now() + retryDelayMs(row.attempts, this.config.retryBaseMs, this.config.retryMaxMs));
-      await repo.update({ id: row.id, status: 'sending' }, {
+      await retryOnDeadlock(() => repo.update({ id: row.id, status: 'sending' }, {
         status: giveUp ? 'failed' : 'retry',
         nextAttemptAt: next,
         leaseUntil: null,
         lastError: message.slice(0, 500),
-      });
+      }));
       this.logger.warn({ mailId: row.id, attempts: row.attempts, err: message }, giveUp ? 'mail not sent: gave up' : 'mail not sent: will retry');
       return false;
     }
