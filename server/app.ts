@@ -217,6 +217,7 @@ export function createApp({ config, db, logger, redis, setupCode = null }: AppDe
       await sessionEvents.drain();
       if (httpServer.listening) await new Promise<void>((r) => httpServer.close(() => r()));
       await session.close();
+      await sessions.close();
     },
   };
 }

@@ -123,7 +123,7 @@ try {
 }
 
 const table = rows.filter((r) => !r.best);
-console.log('\nservers sessions phones  gap ms  actions/s  p50 ms  p95 ms  p99 ms  loop p99  commit p99  cpu ms/action  queries/action  errors');
+console.log('\nservers sessions phones  gap ms  actions/s  p50 ms  p95 ms  p99 ms  loop p99  commit p99  cpu ms/action  db trips/action  errors');
 for (const r of table) {
   console.log([r.servers, r.sessions, r.phones, r.gapMs, r.actionsPerS, r.p50Ms, r.p95Ms, r.p99Ms, r.loopP99Ms, r.commitP99Ms, r.cpuMsPerAction, r.queriesPerAction, r.errors]
     .map((v, i) => String(v).padStart([7, 8, 6, 7, 10, 7, 7, 7, 9, 11, 14, 15, 7][i])).join(' '));

@@ -1,6 +1,6 @@
 // One Railcall server process for the load benchmark (scripts/bench/load.ts starts it as a child):
 // the real app, as server/index.ts builds it, plus measurements answered over IPC: event-loop delay,
-// CPU time, database commit times and queries per action. Not used in production.
+// CPU time, database commit times and database round trips per action. Not used in production.
 import { monitorEventLoopDelay, performance } from 'node:perf_hooks';
 import { MysqlQueryRunner } from 'typeorm/driver/mysql/MysqlQueryRunner.js';
 import { loadConfig } from '../../server/config';
@@ -12,12 +12,18 @@ import { connectRedis } from '../../server/realtime/redis';
 const config = loadConfig();
 const logger = createLogger(config.logLevel);
 
-// Count every query and time every commit, without touching the app's code.
+// Count every round trip to the database and time every commit, without touching the app's code.
+// An action's last round trip ends with its COMMIT (several statements in one): it is timed as the commit.
 let queries = 0;
 let commits: number[] = [];
 const proto = MysqlQueryRunner.prototype as unknown as Record<string, (...args: unknown[]) => Promise<unknown>>;
 const query = proto.query;
-proto.query = function (this: unknown, ...args: unknown[]) { queries += 1; return query.apply(this, args); };
+proto.query = async function (this: unknown, ...args: unknown[]) {
+  queries += 1;
+  if (typeof args[0] !== 'string' || !args[0].endsWith('COMMIT')) return query.apply(this, args);
+  const t = performance.now();
+  try { return await query.apply(this, args); } finally { commits.push(performance.now() - t); }
+};
 const commit = proto.commitTransaction;
 proto.commitTransaction = async function (this: unknown, ...args: unknown[]) {
   const t = performance.now();

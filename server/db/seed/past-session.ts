@@ -20,11 +20,21 @@ export interface PastSessionOptions {
  * one. For an end-to-end lane that needs yesterday's session, and for the report benchmark.
  */
 export async function playPastDrapeUnload(db: DataSource, opts: PastSessionOptions): Promise<number> {
+  const played = { sessions: null as SessionsService | null };
+  try {
+    return await play(db, opts, played);
+  } finally {
+    await played.sessions?.close();
+  }
+}
+
+async function play(db: DataSource, opts: PastSessionOptions, played: { sessions: SessionsService | null }): Promise<number> {
   let clock = opts.startMs;
   const step = opts.stepMs ?? 9000;
   const schedule = new ScheduleService(db);
   const people = new PeopleService(db);
   const sessions = new SessionsService(db, schedule, people, () => clock);
+  played.sessions = sessions;
   const user = async (email: string): Promise<SignedInUser> => {
     const person = await db.getRepository(Person).findOneByOrFail({ email });
     const u = await people.loadUser(person.id);

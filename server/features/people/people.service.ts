@@ -11,6 +11,7 @@ import { Person } from './person.entity';
 import { VenueRole } from './venue-role.entity';
 import { hashPassword } from '../auth/password';
 import { resolveVenue } from '../venue/venue-access';
+import { PERSON_WITH_ROLES_SQL, signedInUserOf } from './signed-in-user';
 import type { MailQueue } from '../mail/mail-queue';
 import { toMailView } from '../mail/mail-queue';
 import { invitationText, passwordResetText, venueAddedText } from '../mail/messages';
@@ -66,18 +67,8 @@ export class PeopleService {
    * `wantedVenueId` is the venue they chose (see resolveVenue); without a role there, their first venue.
    */
   async loadUser(personId: number, wantedVenueId?: number | null): Promise<SignedInUser | null> {
-    const person = await this.db.getRepository(Person).findOneBy({ id: personId });
-    if (!person || person.deactivatedAt) return null;
-    const choice = await resolveVenue(this.db, personId, wantedVenueId);
-    if (!choice) return null;
-    return {
-      id: person.id,
-      name: person.name,
-      email: person.email,
-      venueId: choice.venueId,
-      roles: choice.roles,
-      venueIds: choice.venues.map((v) => v.venueId),
-    };
+    // One statement: this runs before every socket event that needs fresh roles.
+    return signedInUserOf(await this.db.query(PERSON_WITH_ROLES_SQL, [personId]), wantedVenueId);
   }
 
   async findByEmail(email: string): Promise<Person | null> {

@@ -1,8 +1,8 @@
 import type { EntityManager } from 'typeorm';
-import type { QueryDeepPartialEntity } from 'typeorm/query-builder/QueryPartialEntity.js';
 import type { LogDraft, LogEntry } from '@shared/protocol/session';
 import { entryHash } from './hash-chain';
-import { SessionEventRow, type LoadingSessionRow } from './session.entity';
+import type { LoadingSessionRow, SessionEventRow } from './session.entity';
+import { insertEntries } from './hot-path';
 
 export interface EntryAuthor {
   personId: number | null;
@@ -16,6 +16,13 @@ export interface EntryAuthor {
  * Moves the row's counters on; the caller saves the row.
  */
 export async function appendEntries(m: EntityManager, row: LoadingSessionRow, drafts: LogDraft[], author: EntryAuthor, nowMs: number): Promise<LogEntry[]> {
+  const entries = chainEntries(row, drafts, author, nowMs);
+  await insertEntries(m, row.id, entries);
+  return entries;
+}
+
+/** The entries the drafts become, numbered and chained on from the row (moved on), not yet written. */
+export function chainEntries(row: Pick<LoadingSessionRow, 'lastSeq' | 'lastHash'>, drafts: LogDraft[], author: EntryAuthor, nowMs: number): LogEntry[] {
   const entries: LogEntry[] = [];
   for (const draft of drafts) {
     // Railcall's own entries (its closing "finished", re-alerts) have no person, whoever tapped last.
@@ -38,7 +45,6 @@ export async function appendEntries(m: EntityManager, row: LoadingSessionRow, dr
     row.lastSeq = entry.seq;
     row.lastHash = entry.hash;
   }
-  if (entries.length) await m.getRepository(SessionEventRow).insert(entries.map((e) => ({ ...e, sessionId: row.id }) as QueryDeepPartialEntity<SessionEventRow>));
   return entries;
 }
 

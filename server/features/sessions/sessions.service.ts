@@ -14,7 +14,9 @@ import type { ScheduleService } from '../schedule/schedule.service';
 import { LineSetRow } from '../schedule/line-set.entity';
 import { BrickTypeRow } from '../schedule/brick-type.entity';
 import { ActionKeyRow, LoadingSessionRow, SessionEventRow, type StoredAnswer } from './session.entity';
-import { appendEntries, toLogEntry } from './session-log';
+import { appendEntries, chainEntries, toLogEntry } from './session-log';
+import { SessionLocks } from './hot-path';
+import { PERSON_WITH_ROLES_SQL, signedInUserOf, type PersonRoleSqlRow } from '../people/signed-in-user';
 import { genesisHash } from './hash-chain';
 import { writeBackSchedule } from './schedule-writeback';
 
@@ -30,13 +32,21 @@ export type CommittedListener = (c: { sessionId: number; venueId: number; entrie
 
 export class SessionsService {
   private readonly listeners: CommittedListener[] = [];
+  private readonly locks: SessionLocks;
 
   constructor(
     private readonly db: DataSource,
     private readonly schedule: ScheduleService,
     private readonly people: PeopleService,
     private readonly now: () => number = Date.now,
-  ) {}
+  ) {
+    this.locks = new SessionLocks(db);
+  }
+
+  /** Closes the pool the decisions run on (the app's own pool is closed by its owner). */
+  close(): Promise<void> {
+    return this.locks.close();
+  }
 
   onCommitted(listener: CommittedListener): void {
     this.listeners.push(listener);
@@ -201,17 +211,13 @@ export class SessionsService {
    */
   async act(user: SignedInUser, sessionId: number, rawEnvelope: unknown): Promise<ActOutcome> {
     const envelope = parseInput(actionEnvelopeSchema, rawEnvelope, 'action');
-    // The roles held right now, not those at sign-in: a removed role stops working at once.
-    const fresh = await this.people.loadUser(user.id, user.venueId);
-    if (!fresh || fresh.venueId !== user.venueId) throw notFound('That loading session');
-    const actor: Actor = { personId: fresh.id, name: fresh.name, venueRoles: fresh.roles };
-    return this.decideAndRecord(fresh, sessionId, envelope, actor);
+    return this.decideAndRecord(user, sessionId, envelope, 'person');
   }
 
   /** Railcall's own action (re-alerts), decided and logged like anyone's. */
   async actAsSystem(venueId: number, sessionId: number, action: AnyAction): Promise<ActOutcome> {
     const user: SignedInUser = { id: SYSTEM_ACTOR.personId, name: SYSTEM_ACTOR.name, email: '', venueId, roles: [], venueIds: [venueId] };
-    return this.decideAndRecord(user, sessionId, { key: '', clientTimeMs: 0, action: action as ActionEnvelope['action'] }, SYSTEM_ACTOR);
+    return this.decideAndRecord(user, sessionId, { key: '', clientTimeMs: 0, action: action as ActionEnvelope['action'] }, 'system');
   }
 
   /**
@@ -220,47 +226,55 @@ export class SessionsService {
    */
   async reAlertIfDue(venueId: number, sessionId: number): Promise<ActOutcome> {
     const user: SignedInUser = { id: SYSTEM_ACTOR.personId, name: SYSTEM_ACTOR.name, email: '', venueId, roles: [], venueIds: [venueId] };
-    return this.decideAndRecord(user, sessionId, { key: '', clientTimeMs: 0, action: { type: 're-alert', personIds: [] } as AnyAction as ActionEnvelope['action'] }, SYSTEM_ACTOR, true);
+    return this.decideAndRecord(user, sessionId, { key: '', clientTimeMs: 0, action: { type: 're-alert', personIds: [] } as AnyAction as ActionEnvelope['action'] }, 'system', true);
   }
 
-  private async decideAndRecord(user: SignedInUser, sessionId: number, envelope: ActionEnvelope, actor: Actor, claimReAlert = false): Promise<ActOutcome> {
+  /**
+   * Decides with the session row locked. A person's roles are read in the same round trip, after the
+   * lock: the roles held right now, not those at sign-in, so a removed role stops working at once.
+   */
+  private async decideAndRecord(signedIn: SignedInUser, sessionId: number, envelope: ActionEnvelope, who: 'person' | 'system', claimReAlert = false): Promise<ActOutcome> {
     let outcome: ActOutcome;
+    let user = signedIn;
     try {
-      outcome = await this.db.transaction(async (m): Promise<ActOutcome> => {
-      const row = await m.getRepository(LoadingSessionRow).createQueryBuilder('s').setLock('pessimistic_write')
-        .where('s.id = :sessionId AND s.venue_id = :venueId', { sessionId, venueId: user.venueId }).getOne();
-      if (!row) throw notFound('That loading session');
-      const nowMs = this.now();
-      if (claimReAlert) {
-        const due = silentSince(row.state, nowMs).filter((p) => p.due).map((p) => p.personId);
-        // Decided from the locked state, not the timer's copy: whoever claimed it first has already moved it on.
-        if (due.length === 0) return { answer: { ok: true, seq: row.lastSeq, state: row.state }, entries: [], state: row.state };
-        envelope = { ...envelope, action: { type: 're-alert', personIds: due } as AnyAction as ActionEnvelope['action'] };
-      }
-      const before = row.state;
-      const decision = decide(before, envelope.action as AnyAction, actor, nowMs);
-      const isSystem = actor.personId === SYSTEM_ACTOR.personId;
-      const author = { personId: isSystem ? null : user.id, personName: user.name, clientTimeMs: isSystem ? null : envelope.clientTimeMs };
-      const entries = await appendEntries(m, row, decision.ok ? decision.entries : [decision.entry], author, nowMs);
-      if (decision.ok) {
-        row.state = decision.state;
-        row.phase = decision.state.phase;
-        await writeBackSchedule(m, user.venueId, row.plan, before, decision.state, {
-          personId: user.id, personName: user.name, sessionId: row.id, via: 'loading session', reason: `Written back by the loading session "${row.title}"`,
-        });
-      }
-      await m.getRepository(LoadingSessionRow).update({ id: row.id }, { state: row.state, phase: row.phase, lastSeq: row.lastSeq, lastHash: row.lastHash, reAlertDueMs: nextReAlertAtMs(row.state) });
-      const answer: StoredAnswer = decision.ok
-        ? { ok: true, seq: row.lastSeq }
-        : { ok: false, seq: row.lastSeq, error: refusalToApiError(decision) };
-      if (envelope.key) {
-        // The key's row is written last, under the session lock: a key seen before fails here and
-        // the whole attempt rolls back (one query less per action than looking the key up first).
-        await m.getRepository(ActionKeyRow).insert({ sessionId, key: envelope.key, personId: user.id, actionHash: actionHash(envelope.action), answer, createdAtMs: nowMs })
-          .catch((error) => { throw isDuplicateKey(error) ? new KeyTaken() : error; });
-      }
-      return { answer: restore(answer, row.state), entries, state: row.state };
-      });
+      outcome = await this.locks.run(sessionId, signedIn.venueId, async ({ row, alsoRead, manager, commit }): Promise<ActOutcome> => {
+        let actor: Actor = SYSTEM_ACTOR;
+        if (who === 'person') {
+          const fresh = signedInUserOf(alsoRead as PersonRoleSqlRow[], signedIn.venueId);
+          if (!fresh || fresh.venueId !== signedIn.venueId) throw notFound('That loading session');
+          user = fresh;
+          actor = { personId: fresh.id, name: fresh.name, venueRoles: fresh.roles };
+        }
+        if (!row) throw notFound('That loading session');
+        const nowMs = this.now();
+        if (claimReAlert) {
+          const due = silentSince(row.state, nowMs).filter((p) => p.due).map((p) => p.personId);
+          // Decided from the locked state, not the timer's copy: whoever claimed it first has already moved it on.
+          if (due.length === 0) return { answer: { ok: true, seq: row.lastSeq, state: row.state }, entries: [], state: row.state };
+          envelope = { ...envelope, action: { type: 're-alert', personIds: due } as AnyAction as ActionEnvelope['action'] };
+        }
+        const before = row.state;
+        const decision = decide(before, envelope.action as AnyAction, actor, nowMs);
+        const isSystem = actor.personId === SYSTEM_ACTOR.personId;
+        const author = { personId: isSystem ? null : user.id, personName: user.name, clientTimeMs: isSystem ? null : envelope.clientTimeMs };
+        const entries = chainEntries(row, decision.ok ? decision.entries : [decision.entry], author, nowMs);
+        if (decision.ok) {
+          row.state = decision.state;
+          row.phase = decision.state.phase;
+          await writeBackSchedule(manager, user.venueId, row.plan, before, decision.state, {
+            personId: user.id, personName: user.name, sessionId: row.id, via: 'loading session', reason: `Written back by the loading session "${row.title}"`,
+          });
+        }
+        row.reAlertDueMs = nextReAlertAtMs(row.state);
+        const answer: StoredAnswer = decision.ok
+          ? { ok: true, seq: row.lastSeq }
+          : { ok: false, seq: row.lastSeq, error: refusalToApiError(decision) };
+        // The key's row goes in last, under the session lock: a key seen before fails there and the
+        // whole attempt rolls back (one query less per action than looking the key up first).
+        const key = envelope.key ? { sessionId, key: envelope.key, personId: user.id, actionHash: actionHash(envelope.action), answer, createdAtMs: nowMs } : null;
+        await commit(entries, key).catch((error) => { throw isDuplicateKey(error) ? new KeyTaken() : error; });
+        return { answer: restore(answer, row.state), entries, state: row.state };
+      }, who === 'person' ? { sql: PERSON_WITH_ROLES_SQL, params: [signedIn.id] } : undefined);
     } catch (error) {
       if (!(error instanceof KeyTaken)) throw error;
       return this.answerAgain(user, sessionId, envelope);

@@ -21,6 +21,11 @@ const byRoleOrder = (roles: Role[]) => [...new Set(roles)].sort((a, b) => ROLES.
  */
 export async function resolveVenue(db: DataSource | EntityManager, personId: number, wantedVenueId?: number | null): Promise<VenueChoice | null> {
   const rows = await db.getRepository(VenueRole).find({ where: { personId }, order: { venueId: 'ASC' } });
+  return venueChoiceOf(rows, wantedVenueId);
+}
+
+/** The choice made from a person's role rows, in ascending venue order. */
+export function venueChoiceOf(rows: Array<Pick<VenueRole, 'venueId' | 'role'>>, wantedVenueId?: number | null): VenueChoice | null {
   if (rows.length === 0) return null;
   const venues: VenueChoice['venues'] = [];
   for (const row of rows) {
