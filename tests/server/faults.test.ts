@@ -82,7 +82,15 @@ describe('faults: a server killed at random moments, again and again', () => {
     const runs = SOAK ? 4 : 1;
     const killsPerRun = SOAK ? 12 : 3;
     for (let run = 0; run < runs; run++) {
-      // Each run a fresh session; the earlier one is finished, so line set 7 is free again.
+      if (run > 0) {
+        // The earlier run took the drapes off line set 7 for good: each further run starts from a fresh demo venue.
+        await server.stop();
+        await database.drop();
+        database = await createTestDatabase();
+        await seedIfEmpty(database.owner);
+        env = serverEnv(database.config, Number(new URL(url).port));
+        server = await startServer('server', env);
+      }
       const phones = await Promise.all(CREW_EMAILS.map((email) => RoamingPhone.signIn(url, email)));
       const sessionId = await openDrapeUnloadAt(url, phones[0].cookie);
       for (const phone of phones) await phone.watch(sessionId);
