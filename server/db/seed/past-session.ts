@@ -20,21 +20,21 @@ export interface PastSessionOptions {
  * one. For an end-to-end lane that needs yesterday's session, and for the report benchmark.
  */
 export async function playPastDrapeUnload(db: DataSource, opts: PastSessionOptions): Promise<number> {
-  const played = { sessions: null as SessionsService | null };
+  const clock = { ms: opts.startMs };
+  const schedule = new ScheduleService(db);
+  const people = new PeopleService(db);
+  const sessions = new SessionsService(db, schedule, people, () => clock.ms);
   try {
-    return await play(db, opts, played);
+    return await play(db, opts, { clock, schedule, people, sessions });
   } finally {
-    await played.sessions?.close();
+    await sessions.close();
   }
 }
 
-async function play(db: DataSource, opts: PastSessionOptions, played: { sessions: SessionsService | null }): Promise<number> {
-  let clock = opts.startMs;
+interface Players { clock: { ms: number }; schedule: ScheduleService; people: PeopleService; sessions: SessionsService }
+
+async function play(db: DataSource, opts: PastSessionOptions, { clock, schedule, people, sessions }: Players): Promise<number> {
   const step = opts.stepMs ?? 9000;
-  const schedule = new ScheduleService(db);
-  const people = new PeopleService(db);
-  const sessions = new SessionsService(db, schedule, people, () => clock);
-  played.sessions = sessions;
   const user = async (email: string): Promise<SignedInUser> => {
     const person = await db.getRepository(Person).findOneByOrFail({ email });
     const u = await people.loadUser(person.id);
@@ -51,8 +51,8 @@ async function play(db: DataSource, opts: PastSessionOptions, played: { sessions
     lineSets: [{ lineSetId: ls7.id, remove: ls7.pieces.map((p) => p.id), add: [] }],
   });
   const act = async (who: SignedInUser, action: SessionAction) => {
-    clock += step;
-    const { answer } = await sessions.act(who, session.id, { key: randomUUID(), clientTimeMs: clock - 300, action });
+    clock.ms += step;
+    const { answer } = await sessions.act(who, session.id, { key: randomUUID(), clientTimeMs: clock.ms - 300, action });
     if (!answer.ok) throw new Error(`${who.name}: ${action.type} refused: ${answer.error.message}`);
   };
   // The rail operator who opened it leads it already.
