@@ -18,6 +18,11 @@ async function act(request: APIRequestContext, sessionId: number, action: Record
 test("the director sets the venue's time zone; the stage manager's log and the report show times there", async ({ browser }) => {
   test.setTimeout(120_000);
   const td = await openPhone(browser, base, 'td');
+  // The stored settings arrive late, as on a slow phone: a choice made before they arrive must not be overwritten.
+  await td.page.route('**/api/venue', async (route) => {
+    await new Promise((resolve) => setTimeout(resolve, 800));
+    await route.continue();
+  });
   await td.page.goto('/admin/venue');
   const zone = td.page.getByRole('combobox', { name: /Time zone/ });
   await expect(zone).toHaveValue('UTC');
