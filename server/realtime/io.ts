@@ -51,8 +51,7 @@ async function followSignIn(socket: RailcallSocket, loadUser: LoadUser): Promise
   if (!alive || (wanted !== undefined && wanted !== socket.data.user.venueId)) {
     const fresh = alive ? await loadUser(socket.data.user.id, wanted) : null;
     if (!fresh) {
-      socket.emit('auth:signed-out');
-      socket.disconnect(true);
+      endSocketSignIn(socket);
       return false;
     }
     if (fresh.venueId !== socket.data.user.venueId) {
@@ -64,6 +63,28 @@ async function followSignIn(socket: RailcallSocket, loadUser: LoadUser): Promise
     socket.data.user = fresh;
   }
   return true;
+}
+
+/**
+ * Events whose handler checks the sign-in itself, inside the work it does (an action reads the sign-in in
+ * its own round trip to the database): the store is not read a second time before them.
+ */
+const SIGN_IN_CHECKED_BY_HANDLER: ReadonlySet<string> = new Set(['session:act']);
+
+const signInFollowers = new WeakMap<RailcallSocket, () => Promise<boolean>>();
+
+/**
+ * For a handler that found the sign-in changed: reads it again as before any other event (a new venue
+ * chosen is taken on; an ended sign-in ends the socket). False when the socket was signed out.
+ */
+export function catchUpSignIn(socket: RailcallSocket): Promise<boolean> {
+  return signInFollowers.get(socket)?.() ?? Promise.resolve(true);
+}
+
+/** An ended sign-in found by a handler: the phone is told, and the socket closed. */
+export function endSocketSignIn(socket: RailcallSocket): void {
+  socket.emit('auth:signed-out');
+  socket.disconnect(true);
 }
 
 /** Session middleware runs on the handshake request only, not on every polling request. */
@@ -88,7 +109,7 @@ export interface IoOptions {
   /** Carries broadcasts and room queries between server processes; unset for one process. */
   adapter?: ServerOptions['adapter'];
   /** Reloads the person at each event (their chosen venue and roles as they are now). */
-  loadUser?: LoadUser;
+  loadUser: LoadUser;
 }
 
 /** The largest payload one event may carry (JSON text); a session action is a few hundred bytes. */
@@ -150,9 +171,10 @@ export function createIo(httpServer: HttpServer, session: RequestHandler, passpo
         answerRefused(args, { code: 'not-found', message: `Railcall does not know the request "${String(event).slice(0, 40)}". Reload the page.` });
         return;
       }
-      if (!loadUser) return next();
+      if (SIGN_IN_CHECKED_BY_HANDLER.has(event)) return next();
       followSignIn(socket, loadUser).then((open) => (open ? next() : next(new Error('Signed out'))), next);
     });
+    signInFollowers.set(socket, () => followSignIn(socket, loadUser));
     socket.on('error', () => {});
     socket.on('disconnect', () => void limiter.delete(socket.id));
     // A socket ends with its sign-in's absolute lifetime, however active it is.

@@ -119,6 +119,30 @@ describe('a person with roles at more than one venue', () => {
     });
   });
 
+  describe('an action sent first after a venue is chosen elsewhere', () => {
+    it('acts on the venue the sign-in chose, even before any other event from this socket', async () => {
+      const cookie = cookieOf(await request(t.url).post('/api/auth/sign-in').send({ email: 'rail@larkspur.example', password: DEMO_PASSWORD }));
+      expect((await request(t.url).put('/api/me/venue').set('Cookie', cookie).send({ venueId: quillId })).status).toBe(200);
+      const tab = open(t.url, cookie);
+      await once(tab, 'connect');
+      const note = (key: string) => tab.emitWithAck('session:act', {
+        sessionId: larkspurSessionId,
+        envelope: { key, clientTimeMs: Date.now(), action: { type: 'note', text: 'Checking the venue' } },
+      });
+      // Opened at Quillfield Hall: the Larkspur session is not this sign-in's.
+      expect(await note('venue-first-1')).toMatchObject({ ok: false, error: { code: 'not-found' } });
+      // Larkspur chosen in another tab; the first thing this socket sends is the action, and it acts on Larkspur.
+      expect((await request(t.url).put('/api/me/venue').set('Cookie', cookie).send({ venueId: larkspurId })).status).toBe(200);
+      const back = await note('venue-first-2');
+      expect(back, JSON.stringify(back)).toMatchObject({ ok: true });
+      // And back to Quillfield Hall: refused again, on the first event.
+      expect((await request(t.url).put('/api/me/venue').set('Cookie', cookie).send({ venueId: quillId })).status).toBe(200);
+      expect(await note('venue-first-3')).toMatchObject({ ok: false, error: { code: 'not-found' } });
+      expect(tab.connected).toBe(true);
+      tab.close();
+    });
+  });
+
   describe('a technical director opening another venue', () => {
     it('creates it with the default settings, makes them its technical director, and acts on it at once', async () => {
       const td = await signedIn(t.url, 'td@larkspur.example');

@@ -63,8 +63,8 @@ export interface ActionKey { sessionId: number; key: string; personId: number; a
 /** A session row locked inside an open transaction, and the one way to finish it with writes. */
 export interface LockedSession {
   row: LoadingSessionRow | null;
-  /** What `alsoRead` answered, read after the lock was taken (so the read sees everything committed before it). */
-  alsoRead: unknown[];
+  /** What each of `alsoRead` answered, in order, read after the lock was taken (so the reads see everything committed before it). */
+  alsoRead: unknown[][];
   /** For the rare extra writes inside the same transaction (the schedule written back after a test). */
   manager: EntityManager;
   /**
@@ -84,22 +84,22 @@ export class SessionLocks {
 
   constructor(private readonly db: DataSource) {}
 
-  async run<T>(sessionId: number, venueId: number, work: (locked: LockedSession) => Promise<T>, alsoRead?: Statement): Promise<T> {
+  async run<T>(sessionId: number, venueId: number, work: (locked: LockedSession) => Promise<T>, alsoRead: Statement[] = []): Promise<T> {
     const runner = (await this.pool()).createQueryRunner();
     let open = false;
     try {
       // The extra read comes after the lock: InnoDB takes the transaction's snapshot at its first plain
       // read, which must not be older than the previous action on this session.
-      const [, rows, extra] = await runner.query(
-        [`START TRANSACTION`, LOCK_SESSION, ...(alsoRead ? [alsoRead.sql] : [])].join(';\n'),
-        [sessionId, venueId, ...(alsoRead?.params ?? [])],
-      ) as [unknown, SessionSqlRow[], unknown[] | undefined];
+      const [, rows, ...extra] = await runner.query(
+        [`START TRANSACTION`, LOCK_SESSION, ...alsoRead.map((r) => r.sql)].join(';\n'),
+        [sessionId, venueId, ...alsoRead.flatMap((r) => r.params)],
+      ) as [unknown, SessionSqlRow[], ...unknown[][]];
       open = true;
       // TypeORM must not start (and so implicitly commit) a transaction of its own for a save inside this one.
       (runner as QueryRunner & { isTransactionActive: boolean }).isTransactionActive = true;
       const locked: LockedSession = {
         row: sessionRowOf(rows[0]),
-        alsoRead: extra ?? [],
+        alsoRead: extra,
         manager: runner.manager,
         commit: async (entries, key) => {
           await runner.query(...finishStatement(locked.row, entries, key));

@@ -1,7 +1,8 @@
 import { describeEntry, sessionActPayloadSchema, sessionUnwatchPayloadSchema, type SessionActAnswer, sessionWatchPayloadSchema, type LogEntry, type SessionState, type SessionWatchResult } from '@shared/protocol/session';
 import type { Ack, ApiError } from '@shared/protocol/ack';
 import { HttpError, unavailableFrom } from '../../middleware/http-error';
-import { personRoom, venueRoom, type RailcallServer, type SocketFeature } from '../../realtime/io';
+import { catchUpSignIn, endSocketSignIn, personRoom, venueRoom, type RailcallServer, type SocketFeature } from '../../realtime/io';
+import { SignInEnded, SignInMoved } from '../auth/sign-in-row';
 import type { VenueSessionsChanged } from '@shared/protocol/events';
 import type { Logger } from '../../logger';
 import { parseInput } from '../../middleware/validate';
@@ -76,11 +77,19 @@ export function sessionSocketFeature(sessions: SessionsService, presence: Presen
       const ack = (typeof rawAck === 'function' ? rawAck : () => {}) as (res: SessionActAnswer) => void;
       try {
         const parsed = parseInput(sessionActPayloadSchema, payload, 'action');
-        const { answer } = await sessions.act(user(), parsed.sessionId, parsed.envelope);
+        const act = () => sessions.act(user(), parsed.sessionId, parsed.envelope, socket.data.sessionId);
+        // The sign-in is read inside the action's own round trip; a venue chosen in another tab since
+        // this socket last looked is taken on, and the action tried once more as that venue.
+        const { answer } = await act().catch(async (error: unknown) => {
+          if (!(error instanceof SignInMoved)) throw error;
+          if (!(await catchUpSignIn(socket))) throw new SignInEnded();
+          return act();
+        });
         // A refusal is logged too: its seq lets the phone point at its own entry.
         ack(answer);
       } catch (error) {
         ack({ ok: false, error: toApiError(error, logger) });
+        if (error instanceof SignInEnded) endSocketSignIn(socket);
       }
     });
 

@@ -6,6 +6,7 @@ import {
 } from '@shared/protocol/session';
 import { EVENTS_PAGE_LIMIT, NOT_RAIL_LEAD_TEXT, lineSetKey, planSession, type EventsPage, sessionPlanErrors, type CreateSessionInput, type SessionSummary } from '@shared/protocol/sessions-api';
 import type { ApiError } from '@shared/protocol/ack';
+import { signInNowOf, signInStatement, SignInEnded, SignInMoved } from '../auth/sign-in-row';
 import { HttpError, notFound } from '../../middleware/http-error';
 import { parseInput } from '../../middleware/validate';
 import type { PeopleService, SignedInUser } from '../people/people.service';
@@ -209,9 +210,9 @@ export class SessionsService {
    * locked (SELECT ... FOR UPDATE) so actions from two phones are taken one after the other, and the
    * decision, its log entries and the key's answer are written in the same transaction.
    */
-  async act(user: SignedInUser, sessionId: number, rawEnvelope: unknown): Promise<ActOutcome> {
+  async act(user: SignedInUser, sessionId: number, rawEnvelope: unknown, signInId?: string): Promise<ActOutcome> {
     const envelope = parseInput(actionEnvelopeSchema, rawEnvelope, 'action');
-    return this.decideAndRecord(user, sessionId, envelope, 'person');
+    return this.decideAndRecord(user, sessionId, envelope, 'person', false, signInId);
   }
 
   /** Railcall's own action (re-alerts), decided and logged like anyone's. */
@@ -232,15 +233,25 @@ export class SessionsService {
   /**
    * Decides with the session row locked. A person's roles are read in the same round trip, after the
    * lock: the roles held right now, not those at sign-in, so a removed role stops working at once.
+   * With `signInId` (a socket's action) the sign-in itself is read in that trip too: ended → SignInEnded,
+   * another venue chosen since → SignInMoved; nothing is written in either case.
    */
-  private async decideAndRecord(signedIn: SignedInUser, sessionId: number, envelope: ActionEnvelope, who: 'person' | 'system', claimReAlert = false): Promise<ActOutcome> {
+  private async decideAndRecord(signedIn: SignedInUser, sessionId: number, envelope: ActionEnvelope, who: 'person' | 'system', claimReAlert = false, signInId?: string): Promise<ActOutcome> {
     let outcome: ActOutcome;
     let user = signedIn;
     try {
       outcome = await this.locks.run(sessionId, signedIn.venueId, async ({ row, alsoRead, manager, commit }): Promise<ActOutcome> => {
         let actor: Actor = SYSTEM_ACTOR;
         if (who === 'person') {
-          const fresh = signedInUserOf(alsoRead as PersonRoleSqlRow[], signedIn.venueId);
+          let wanted = signedIn.venueId;
+          if (signInId !== undefined) {
+            const signIn = signInNowOf(alsoRead[1], signedIn.id);
+            if (!signIn.alive) throw new SignInEnded();
+            wanted = signIn.venueId ?? wanted;
+          }
+          // The venue the sign-in acts on now (the chosen one while a role is held there, as on every request).
+          const fresh = signedInUserOf(alsoRead[0] as PersonRoleSqlRow[], wanted);
+          if (signInId !== undefined && fresh && fresh.venueId !== signedIn.venueId) throw new SignInMoved();
           if (!fresh || fresh.venueId !== signedIn.venueId) throw notFound('That loading session');
           user = fresh;
           actor = { personId: fresh.id, name: fresh.name, venueRoles: fresh.roles };
@@ -274,7 +285,10 @@ export class SessionsService {
         const key = envelope.key ? { sessionId, key: envelope.key, personId: user.id, actionHash: actionHash(envelope.action), answer, createdAtMs: nowMs } : null;
         await commit(entries, key).catch((error) => { throw isDuplicateKey(error) ? new KeyTaken() : error; });
         return { answer: restore(answer, row.state), entries, state: row.state };
-      }, who === 'person' ? { sql: PERSON_WITH_ROLES_SQL, params: [signedIn.id] } : undefined);
+      }, who === 'person' ? [
+        { sql: PERSON_WITH_ROLES_SQL, params: [signedIn.id] },
+        ...(signInId !== undefined ? [signInStatement(signInId, Date.now()) /* the store's clock, not the session's */] : []),
+      ] : []);
     } catch (error) {
       if (!(error instanceof KeyTaken)) throw error;
       return this.answerAgain(user, sessionId, envelope);
