@@ -11,6 +11,7 @@ export function createDataSource(db: DbConfig, opts: { poolSize?: number } = {})
     connectorPackage: 'mysql2',
     host: db.host,
     port: db.port,
+    ...(db.socketPath ? { socketPath: db.socketPath } : {}),
     username: db.user,
     password: db.password,
     database: db.database,

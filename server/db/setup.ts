@@ -7,7 +7,8 @@ import { seedDemoVenue } from './seed/demo-venue';
 /** Migrates as the schema owner, then sets the application account's rights table by table. */
 export async function migrate(owner: DataSource, config: Config): Promise<string[]> {
   const ran = await owner.runMigrations({ transaction: 'each' });
-  await grantAppAccount(owner, config.db.database, config.db.user);
+  // MariaDB names an account by where it connects from: the Unix socket is 'localhost', TCP on loopback '127.0.0.1'.
+  await grantAppAccount(owner, config.db.database, config.db.user, config.db.socketPath ? 'localhost' : '127.0.0.1');
   return ran.map((m) => m.name);
 }
 

@@ -1,5 +1,6 @@
 import session from 'express-session';
 import MySQLStoreFactory from 'express-mysql-session';
+import mysql from 'mysql2/promise';
 import type { RequestHandler } from 'express';
 import type { Config } from '../config';
 
@@ -22,19 +23,24 @@ export interface SessionParts {
 /** Sign-ins stored in MariaDB (table http_session, made by a migration). */
 export function createSessionMiddleware(config: Config): SessionParts {
   const MySQLStore = MySQLStoreFactory(session);
-  const store = new MySQLStore({
+  // Its own small pool, made here so that a Unix socket can be named (the store passes only host and port on).
+  const pool = mysql.createPool({
     host: config.db.host,
     port: config.db.port,
+    ...(config.db.socketPath ? { socketPath: config.db.socketPath } : {}),
     user: config.db.user,
     password: config.db.password,
     database: config.db.database,
+    connectionLimit: 4,
+  });
+  const store = new MySQLStore({
     createDatabaseTable: false,
     clearExpired: true,
     checkExpirationInterval: 15 * 60 * 1000,
     expiration: config.sessionIdleMs,
-    connectionLimit: 4,
+    endConnectionOnClose: true,
     schema: { tableName: 'http_session', columnNames: { session_id: 'session_id', expires: 'expires', data: 'data' } },
-  });
+  }, pool as never);
   const middleware = session({
     name: SESSION_COOKIE,
     secret: config.sessionSecret,

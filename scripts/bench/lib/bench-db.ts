@@ -24,13 +24,15 @@ export async function startBenchDatabase(extraEnv: Record<string, string> = {}):
   const db = new MariaDb({ baseDir: mkdtempSync(join(tmpdir(), 'railcall-bench-')), port: await freePort() });
   await db.start();
   const pw = randomBytes(12).toString('hex');
-  db.sql(`CREATE DATABASE bench; CREATE USER 'bench_owner'@'127.0.0.1' IDENTIFIED BY ${quote(pw)};
-    GRANT ALL PRIVILEGES ON bench.* TO 'bench_owner'@'127.0.0.1' WITH GRANT OPTION;
-    CREATE USER 'bench_app'@'127.0.0.1' IDENTIFIED BY ${quote(pw)};`);
+  // Each user exists for TCP (127.0.0.1) and for the Unix socket (localhost): BENCH_DB_VIA picks which the servers use.
+  db.sql(['127.0.0.1', 'localhost'].map((host) => `CREATE USER 'bench_owner'@'${host}' IDENTIFIED BY ${quote(pw)};
+    GRANT ALL PRIVILEGES ON bench.* TO 'bench_owner'@'${host}' WITH GRANT OPTION;
+    CREATE USER 'bench_app'@'${host}' IDENTIFIED BY ${quote(pw)};`).join('\n') + 'CREATE DATABASE bench;');
   const env = {
     RAILCALL_DB_PORT: String(db.port), RAILCALL_DB_NAME: 'bench', RAILCALL_DB_USER: 'bench_app', RAILCALL_DB_PASSWORD: pw,
     RAILCALL_DB_OWNER_USER: 'bench_owner', RAILCALL_DB_OWNER_PASSWORD: pw, RAILCALL_SESSION_SECRET: randomBytes(16).toString('hex'),
-    RAILCALL_CLIENT_DIR: '', RAILCALL_LOG_LEVEL: 'silent', ...extraEnv,
+    RAILCALL_CLIENT_DIR: '', RAILCALL_LOG_LEVEL: process.env.BENCH_LOG_LEVEL ?? 'silent',
+    ...(process.env.BENCH_DB_VIA === 'tcp' ? {} : { RAILCALL_DB_SOCKET: db.socket }), ...extraEnv,
   };
   const config = loadConfig(env);
   const withOwner = async <T>(fn: (owner: DataSource) => Promise<T>): Promise<T> => {
